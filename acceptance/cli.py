@@ -1,0 +1,58 @@
+"""Command-line entry point: the only place that prints errors and exits."""
+
+from __future__ import annotations
+
+import argparse
+import importlib
+import sys
+from collections.abc import Sequence
+
+from . import __version__
+from .errors import AcceptanceError
+
+# Each command lives in acceptance/commands/<name>.py and exposes
+# ``register(subparsers)``; modules are imported lazily so that light commands
+# (check) never import the PDF stack.
+COMMANDS: tuple[tuple[str, str], ...] = (
+    ("check", "evaluate a job and print a summary of every visit"),
+    ("build", "write the HTML site, a PDF per visit and the results file"),
+    ("capture", "analyse a scope capture (CSV): RMS, meter readings, harmonics"),
+)
+
+
+def _parser() -> argparse.ArgumentParser:
+    parser = argparse.ArgumentParser(
+        prog="acceptance",
+        description="Commissioning readings to computed verdicts, an offline site and PDF records.",
+    )
+    parser.add_argument("--version", action="version", version=f"acceptance {__version__}")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND", required=True)
+    for name, help_text in COMMANDS:
+        sub.add_parser(name, help=help_text, add_help=False)
+    return parser
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    argv = list(sys.argv[1:] if argv is None else argv)
+    top = _parser()
+    names = [name for name, _ in COMMANDS]
+    if not argv or argv[0] not in names:
+        args = top.parse_args(argv)  # prints help / version / error and exits
+        return 2
+    name = argv[0]
+    module = importlib.import_module(f".commands.{name}", __package__)
+    parser = argparse.ArgumentParser(prog=f"acceptance {name}", description=dict(COMMANDS)[name])
+    module.register(parser)
+    args = parser.parse_args(argv[1:])
+    try:
+        return int(module.run(args))
+    except AcceptanceError as error:
+        print(f"error: {error}" if "\n" not in str(error) else str(error), file=sys.stderr)
+        return error.exit_code
+    except KeyboardInterrupt:
+        print("interrupted; nothing was replaced", file=sys.stderr)
+        return 130
+
+
+if __name__ == "__main__":  # pragma: no cover
+    raise SystemExit(main())
