@@ -1,0 +1,79 @@
+"""``acceptance check JOB``: evaluate and print a summary; exit 0 only when every visit passes."""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+from pathlib import Path
+
+from ..evaluation import evaluate_job
+from ..loading import load_job
+from ..results import JobResult, Verdict, VisitState, to_json
+
+_MARK = {
+    Verdict.PASS: "✓", Verdict.CONDITIONAL_PASS: "≈✓", Verdict.CONDITIONAL_FAIL: "≈✗",
+    Verdict.FAIL: "✗", Verdict.UNDETERMINED: "?", Verdict.NOT_TESTED: "○",
+    Verdict.NOT_APPLICABLE: "–", Verdict.RECORDED: "·",
+}
+_STATE_MARK = {VisitState.PASS: "✓", VisitState.PASS_WITH_DEFICIENCIES: "!",
+               VisitState.INCOMPLETE: "○", VisitState.FAIL: "✗"}
+
+
+def register(parser: argparse.ArgumentParser) -> None:
+    parser.add_argument("job", type=Path, help="the job folder (holding job.yaml)")
+    parser.add_argument("--json", action="store_true",
+                        help="print the results as JSON (schema acceptance-results/1)")
+    parser.add_argument("--all", action="store_true",
+                        help="list every item, not only those that need attention")
+
+
+def summary_lines(result: JobResult, show_all: bool = False) -> list[str]:
+    lines = [f"{result.title} — {result.site}"]
+    for machine in result.machines:
+        lines.append("")
+        lines.append(f"{machine.name} [{machine.id}]")
+        if not machine.visits:
+            lines.append("  no visits recorded")
+        for visit in machine.visits:
+            lines.append(f"  {_STATE_MARK[visit.state]} {visit.id} ({visit.kind}, "
+                         f"{visit.date.isoformat()}): {visit.state.value.upper()}")
+            for item in visit.items:
+                if not show_all and not item.verdict.is_open:
+                    continue
+                for element in item.elements or ():
+                    if not show_all and (not element.verdict.is_open or (
+                            not item.required and element.verdict is Verdict.NOT_TESTED)):
+                        continue
+                    where = f"{item.key}" + (f"[{element.element}]" if element.element else "")
+                    reading = element.reading or "—"
+                    lines.append(f"      {_MARK[element.verdict]} {element.verdict.value:<16} "
+                                 f"{where}: {reading}")
+                    for check in element.checks:
+                        if check.verdict is element.verdict or show_all:
+                            detail = f"{check.limit}"
+                            if check.message:
+                                detail += f" — {check.message}"
+                            lines.append(f"          {detail}  ({check.source})")
+                    if element.line:
+                        lines.append(f"          at {visit.source_file}:{element.line}")
+                if not item.elements and show_all:
+                    lines.append(f"      {_MARK[item.verdict]} {item.verdict.value:<16} "
+                                 f"{item.key}")
+    visits = result.visits
+    states = {state: sum(1 for v in visits if v.state is state) for state in VisitState}
+    lines.append("")
+    lines.append(f"{len(visits)} visits: " + ", ".join(
+        f"{count} {state.value}" for state, count in states.items() if count))
+    return lines
+
+
+def run(args: argparse.Namespace) -> int:
+    job = load_job(args.job)
+    result = evaluate_job(job)
+    if args.json:
+        json.dump(to_json(result), sys.stdout, ensure_ascii=False, indent=2)
+        sys.stdout.write("\n")
+    else:
+        print("\n".join(summary_lines(result, args.all)))
+    return 0 if all(v.state is VisitState.PASS for v in result.visits) else 1

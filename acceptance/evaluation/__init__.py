@@ -1,0 +1,222 @@
+"""Evaluation: a pure function from a loaded job to results.
+
+Nothing here reads or writes files. ``check``, ``build`` and every other command
+call :func:`evaluate_job` and get the same verdicts for the same inputs.
+"""
+
+from __future__ import annotations
+
+from collections import Counter
+
+from .. import __version__
+from ..loading import Job, LoadedChecklist, LoadedMachine, LoadedVisit, Reading, element_names
+from ..model import ChecklistItem, LimitOverride
+from ..results import (
+    CheckResult,
+    ChecklistResult,
+    ElementResult,
+    ItemResult,
+    JobResult,
+    MachineResult,
+    Verdict,
+    VisitResult,
+    VisitState,
+    worst,
+)
+from ..units import Quantity
+from .rules import RULES, Context
+
+__all__ = ["evaluate_job", "visit_state"]
+
+
+def _applies(item: ChecklistItem, machine: LoadedMachine) -> bool:
+    nameplate = machine.model.nameplate
+    return {
+        "always": True,
+        "capacitors": bool(nameplate.capacitors),
+        "windings": bool(nameplate.windings),
+        "three_phase": nameplate.phases == 3,
+        "survey_points": bool(machine.model.survey_points),
+        "rated_current": nameplate.rated_current is not None,
+        "protective_device": nameplate.protective_device is not None,
+    }[item.applies_when]
+
+
+def _element_spec(item: ChecklistItem, machine: LoadedMachine, element: str | None):  # noqa: ANN202
+    nameplate = machine.model.nameplate
+    pool = {"winding": nameplate.windings, "capacitor": nameplate.capacitors,
+            "survey_point": machine.model.survey_points}.get(item.per, [])
+    return next((entry for entry in pool if entry.id == element), None)
+
+
+def _override(job: Job, key: str, check_id: str) -> LimitOverride | None:
+    return next((o for o in job.model.overrides if o.item == key and o.check == check_id), None)
+
+
+def _evaluate_element(item: ChecklistItem, checklist: LoadedChecklist, element: str | None,
+                      reading: Reading | None, job: Job, machine: LoadedMachine,
+                      visit: LoadedVisit) -> ElementResult:
+    def empty(verdict: Verdict) -> ElementResult:
+        return ElementResult(element, verdict, None, None, item.unit or "", None,
+                             reading.instrument if reading else None, {},
+                             reading.note if reading else None, (),
+                             reading.line if reading else None)
+
+    if reading is None or reading.value is None:
+        if reading is not None and reading.not_applicable:
+            return empty(Verdict.NOT_APPLICABLE)
+        return empty(Verdict.NOT_TESTED)
+    context = Context(job, machine, visit, item, _element_spec(item, machine, element))
+    checks: list[CheckResult] = []
+    for spec in item.checks:
+        key = f"{checklist.id}.{item.id}"
+        override = _override(job, key, spec.id)
+        params = {**spec.params, **(override.params if override else {})}
+        outcome = RULES[spec.rule].evaluate(reading, context, params)
+        source = override.source.describe() if override else spec.source.describe()
+        if outcome.source_note and not override:
+            source = f"{source}; {outcome.source_note}"
+        checks.append(CheckResult(
+            id=spec.id, rule=spec.rule, verdict=outcome.verdict, limit=outcome.limit,
+            source=source, steps=outcome.steps, message=outcome.message,
+            override=override.reason if override else None, compared=outcome.compared))
+    verdict = worst([c.verdict for c in checks], empty=Verdict.RECORDED)
+    value = reading.value
+    if isinstance(value, Quantity):
+        shown, number, unit = value.text or value.format(), value.value, value.base_unit
+        basis = value.basis.value if value.basis else None
+    else:
+        shown, number, unit, basis = ("yes" if value else "no"), None, "", None
+    extras = {name: (q.text or q.format()) for name, q in reading.extras.items()}
+    return ElementResult(element, verdict, shown, number, unit, basis, reading.instrument,
+                         extras, reading.note, tuple(checks), reading.line)
+
+
+def _evaluate_item(item: ChecklistItem, checklist: LoadedChecklist, job: Job,
+                   machine: LoadedMachine, visit: LoadedVisit) -> ItemResult:
+    readings = visit.readings.get((checklist.id, item.id), [])
+    if not _applies(item, machine):
+        elements: tuple[ElementResult, ...] = ()
+        verdict = Verdict.NOT_APPLICABLE
+    else:
+        survey_ids = [p.id for p in machine.model.survey_points]
+        names = element_names(item.per, machine.model.nameplate, survey_ids)
+        by_element = {r.element: r for r in readings}
+        elements = tuple(
+            _evaluate_element(item, checklist, name, by_element.get(name), job, machine, visit)
+            for name in names)
+        verdict = worst([e.verdict for e in elements], empty=Verdict.NOT_APPLICABLE)
+    return ItemResult(checklist=checklist.id, id=item.id, title=item.title, unit=item.unit,
+                      safety_critical=item.safety_critical, required=item.required,
+                      verdict=verdict, elements=elements, guidance=item.guidance,
+                      caution=item.caution)
+
+
+def visit_state(items: list[ItemResult]) -> VisitState:
+    """Roll a visit's items up into one state.
+
+    A failed safety-critical item fails the visit; a required item not tested or
+    undecidable leaves it incomplete; any other failure leaves open deficiencies.
+    """
+    if any(i.safety_critical and i.verdict.is_failure for i in items):
+        return VisitState.FAIL
+    if any(i.required and i.verdict in (Verdict.NOT_TESTED, Verdict.UNDETERMINED)
+           for i in items):
+        return VisitState.INCOMPLETE
+    if any(i.verdict.is_failure for i in items):
+        return VisitState.PASS_WITH_DEFICIENCIES
+    return VisitState.PASS
+
+
+def _evaluate_visit(visit: LoadedVisit, job: Job, machine: LoadedMachine) -> VisitResult:
+    checklists = []
+    for checklist_id in machine.model.checklists:
+        loaded = job.checklists[checklist_id]
+        items = tuple(_evaluate_item(item, loaded, job, machine, visit)
+                      for item in loaded.model.items)
+        checklists.append(ChecklistResult(
+            id=loaded.id, title=loaded.model.title, version=loaded.model.version,
+            origin=loaded.origin, caution=loaded.model.caution,
+            verdict=worst([i.verdict for i in items]), items=items))
+    all_items = [item for c in checklists for item in c.items]
+    counts = Counter(item.verdict.value for item in all_items)
+    conditions = {}
+    if visit.model.conditions.ambient is not None:
+        conditions["ambient"] = visit.model.conditions.ambient.text
+    if visit.model.conditions.weather:
+        conditions["weather"] = visit.model.conditions.weather
+    if visit.model.conditions.note:
+        conditions["note"] = visit.model.conditions.note
+    return VisitResult(
+        id=visit.id, machine=machine.id, kind=visit.model.kind.value, date=visit.model.date,
+        performed_by=tuple(visit.model.performed_by), state=visit_state(all_items),
+        counts={v.value: counts.get(v.value, 0) for v in Verdict},
+        checklists=tuple(checklists), conditions=conditions, notes=visit.model.notes,
+        attachments=tuple((a.path, a.title) for a in visit.model.attachments),
+        sign_off=tuple({"name": s.name, "role": s.role, "date": s.date.isoformat(),
+                        "statement": s.statement or ""} for s in visit.model.sign_off),
+        source_file=visit.document.display_name)
+
+
+def _nameplate_summary(machine: LoadedMachine) -> dict[str, object]:
+    nameplate = machine.model.nameplate
+    summary: dict[str, object] = {
+        "rated voltage": nameplate.rated_voltage.text,
+        "phases": str(nameplate.phases) + (" + N" if nameplate.neutral else ""),
+        "frequency": nameplate.frequency.text if nameplate.frequency else "d.c.",
+    }
+    if nameplate.rated_current is not None:
+        summary["rated current"] = (f"{nameplate.rated_current.text} "
+                                    f"({nameplate.current_basis.phrase})")
+    if nameplate.rated_power is not None:
+        summary["rated power"] = nameplate.rated_power.text
+    if nameplate.duty_cycle is not None:
+        summary["duty cycle"] = nameplate.duty_cycle.text
+    if nameplate.protective_device is not None:
+        device = nameplate.protective_device
+        summary["protective device"] = f"{device.description}, {device.rating.text}"
+    if nameplate.supply_cable is not None:
+        cable = nameplate.supply_cable
+        summary["supply cable"] = (f"{cable.cores} × {cable.cross_section.text} {cable.material}, "
+                                   f"{cable.length.text}")
+    for winding in nameplate.windings:
+        text = f"{winding.material}, thermal class {winding.thermal_class}"
+        if winding.resistance is not None:
+            text += f", {winding.resistance.text}"
+            if winding.resistance_tolerance is not None:
+                text += f" ± {winding.resistance_tolerance.text}"
+            if winding.resistance_temperature is not None:
+                text += f" at {winding.resistance_temperature.text}"
+        summary[f"winding: {winding.name}"] = text
+    for capacitor in nameplate.capacitors:
+        text = f"{capacitor.nominal.text}, tolerance {capacitor.tolerance}"
+        if capacitor.rated_voltage is not None:
+            text += f", {capacitor.rated_voltage.text}"
+        summary[f"capacitor: {capacitor.name}"] = text
+    return summary
+
+
+def evaluate_job(job: Job) -> JobResult:
+    """Evaluate every visit of every machine. Pure and deterministic."""
+    machines = tuple(
+        MachineResult(id=m.id, name=m.model.name, kind=m.model.kind, area=m.model.area,
+                      nameplate=_nameplate_summary(m),
+                      visits=tuple(_evaluate_visit(v, job, m) for v in m.visits))
+        for m in job.machines)
+    instruments = tuple(
+        {"id": i.id, "kind": i.kind, "model": i.model or "", "serial": i.serial or "",
+         "response": i.response, "category": i.category or "",
+         "calibrated": i.calibrated.isoformat() if i.calibrated else "",
+         "calibration_due": i.calibration_due.isoformat() if i.calibration_due else ""}
+        for i in sorted(job.instruments.values(), key=lambda i: i.id))
+    overrides = tuple({"item": o.item, "check": o.check, "reason": o.reason,
+                       "source": o.source.describe(),
+                       "params": ", ".join(f"{k} = {v}" for k, v in o.params.items())}
+                      for o in job.model.overrides)
+    return JobResult(
+        title=job.model.title, site=job.model.site.name, contractor=job.model.contractor.name,
+        reference_temperature=job.model.reference_temperature.text or "20 °C",
+        standards=tuple(f"{s.document}:{s.edition}" + (f" — {s.title}" if s.title else "")
+                        for s in job.model.standards),
+        overrides=overrides, machines=machines, tool_version=__version__,
+        instruments=instruments)

@@ -1,0 +1,458 @@
+"""The rules a checklist item's check can name, and what each computes.
+
+A checklist says *which* rule applies and with which parameters (declarative
+YAML); the rule here does the arithmetic, returns the verdict, the tolerance
+phrase and every intermediate value. Rules call the pure functions in
+:mod:`acceptance.computations` for the engineering; they never format HTML.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from dataclasses import dataclass, field
+from typing import TYPE_CHECKING, Any
+
+from ..results import Step, Verdict
+from ..tolerance import Tolerance
+from ..units import Basis, Dimension, Quantity, UnitError, format_value, parse_quantity
+from .capacitor_codes import tolerance_window
+
+if TYPE_CHECKING:
+    from ..loading import Job, LoadedMachine, LoadedVisit, Reading
+    from ..model import ChecklistItem
+
+__all__ = ["RULES", "Context", "Outcome", "Rule", "SYMBOLS"]
+
+SYMBOLS = {
+    Dimension.VOLTAGE: "U", Dimension.CURRENT: "I", Dimension.RESISTANCE: "R",
+    Dimension.CAPACITANCE: "C", Dimension.FREQUENCY: "f", Dimension.TEMPERATURE: "θ",
+    Dimension.TEMPERATURE_DIFFERENCE: "Δθ", Dimension.RATIO: "x", Dimension.TIME: "t",
+    Dimension.POWER: "P", Dimension.APPARENT_POWER: "S", Dimension.REACTIVE_POWER: "Q",
+    Dimension.LENGTH: "l", Dimension.AREA: "A", Dimension.ENERGY: "E", Dimension.CHARGE: "Q",
+    Dimension.NUMBER: "n",
+}
+
+
+@dataclass(frozen=True)
+class Context:
+    """Everything a rule may look at besides the reading itself."""
+
+    job: Job
+    machine: LoadedMachine
+    visit: LoadedVisit
+    item: ChecklistItem
+    element: Any  # WindingSpec | CapacitorSpec | SurveyPoint | None
+
+    @property
+    def nameplate(self):  # noqa: ANN201 - the model's Nameplate
+        return self.machine.model.nameplate
+
+    def reading_of(self, key: str, element: str | None) -> Reading | None:
+        checklist, _, item = key.partition(".")
+        for reading in self.visit.readings.get((checklist, item), []):
+            if reading.element == element:
+                return reading
+        return None
+
+    def instrument_basis(self, reading: Reading) -> Basis | None:
+        if isinstance(reading.value, Quantity) and reading.value.basis is not None:
+            return reading.value.basis
+        instrument = self.job.instruments.get(reading.instrument or "")
+        if instrument is None:
+            return None
+        return {"true-rms": Basis.RMS, "average-responding": Basis.AVERAGE}.get(
+            instrument.response)
+
+
+@dataclass(frozen=True)
+class Outcome:
+    verdict: Verdict
+    limit: str
+    steps: tuple[Step, ...] = ()
+    message: str | None = None
+    compared: str | None = None
+    source_note: str | None = None
+
+
+@dataclass(frozen=True)
+class Param:
+    kind: str  # "quantity" (item's dimension), "ratio", "reference", "number", "text",
+    #            "temperature difference", "checklist item"
+    required: bool = True
+    choices: tuple[str, ...] = ()
+
+
+@dataclass(frozen=True)
+class Rule:
+    name: str
+    summary: str
+    params: dict[str, Param]
+    evaluate: Callable[[Reading, Context, dict[str, Any]], Outcome]
+    record: str = "quantity"  # what kind of item it applies to
+    groups: tuple[tuple[str, ...], ...] = field(default=())  # at least one of each group
+
+    def validate_params(self, params: dict[str, Any], item: ChecklistItem) -> list[str]:
+        problems: list[str] = []
+        if item.record != self.record:
+            problems.append(f"rule '{self.name}' applies to {self.record} items, "
+                            f"but this item records a {item.record}")
+            return problems
+        for name in params:
+            if name not in self.params:
+                allowed = ", ".join(self.params) or "none"
+                problems.append(f"rule '{self.name}' has no parameter '{name}' "
+                                f"(its parameters: {allowed})")
+        for name, spec in self.params.items():
+            if name not in params:
+                if spec.required:
+                    problems.append(f"rule '{self.name}' needs parameter '{name}'")
+                continue
+            problems.extend(_check_param(self.name, name, spec, params[name], item))
+        for group in self.groups:
+            if not any(name in params for name in group):
+                problems.append(f"rule '{self.name}' needs one of: {', '.join(group)}")
+        return problems
+
+
+def _item_dimension(item: ChecklistItem) -> Dimension:
+    from ..loading import unit_dimension
+
+    return unit_dimension(item.unit or "")
+
+
+def _check_param(rule: str, name: str, spec: Param, value: Any,
+                 item: ChecklistItem) -> list[str]:
+    try:
+        if spec.kind == "quantity":
+            parse_quantity(value, _item_dimension(item))
+        elif spec.kind == "ratio":
+            parse_quantity(value, Dimension.RATIO)
+        elif spec.kind == "temperature difference":
+            parse_quantity(value, Dimension.TEMPERATURE_DIFFERENCE)
+        elif spec.kind == "number":
+            if isinstance(value, bool) or not isinstance(value, int | float) or value <= 0:
+                return [f"parameter '{name}' of rule '{rule}' must be a positive number"]
+        elif spec.kind in ("reference", "text", "checklist item") and spec.choices:
+            if value not in spec.choices:
+                return [f"parameter '{name}' of rule '{rule}' is {value!r}; "
+                        f"use one of {', '.join(spec.choices)}"]
+    except UnitError as error:
+        return [f"parameter '{name}' of rule '{rule}': {error}"]
+    return []
+
+
+# ------------------------------------------------------------------ references
+
+REFERENCES: dict[str, tuple[str, Dimension]] = {
+    "rated_voltage": ("rated voltage", Dimension.VOLTAGE),
+    "rated_frequency": ("rated frequency", Dimension.FREQUENCY),
+    "rated_current": ("rated current", Dimension.CURRENT),
+    "protective_device": ("protective device rating", Dimension.CURRENT),
+}
+
+
+def _reference(name: str, context: Context) -> Quantity | None:
+    nameplate = context.nameplate
+    if name == "rated_voltage":
+        return nameplate.rated_voltage
+    if name == "rated_frequency":
+        return nameplate.frequency
+    if name == "rated_current":
+        return nameplate.rated_current
+    if name == "protective_device":
+        device = nameplate.protective_device
+        return device.rating if device else None
+    raise KeyError(name)  # pragma: no cover - validated against REFERENCES
+
+
+def _symbol(reading: Reading, context: Context) -> str:
+    assert isinstance(reading.value, Quantity)
+    return SYMBOLS[reading.value.dimension]
+
+
+def _judge(tolerance: Tolerance, value: float) -> Verdict:
+    return Verdict.PASS if tolerance.contains(value) else Verdict.FAIL
+
+
+def _display_unit(reading: Reading, context: Context) -> str:
+    assert isinstance(reading.value, Quantity)
+    return context.item.unit if context.item.unit else reading.value.unit
+
+
+# ------------------------------------------------------------------ generic rules
+
+
+def _confirmed(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
+    verdict = Verdict.PASS if reading.value is True else Verdict.FAIL
+    return Outcome(verdict, "confirmed (yes)")
+
+
+def _bound(kind: str) -> Callable[[Reading, Context, dict[str, Any]], Outcome]:
+    def evaluate(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
+        assert isinstance(reading.value, Quantity)
+        limit = parse_quantity(params["limit"], reading.value.dimension)
+        unit = limit.unit or _display_unit(reading, context)
+        symbol = _symbol(reading, context)
+        tolerance = (Tolerance(limit.dimension, symbol, unit, None, limit.value) if kind == "max"
+                     else Tolerance(limit.dimension, symbol, unit, limit.value, None))
+        return Outcome(_judge(tolerance, reading.value.value), tolerance.describe())
+
+    return evaluate
+
+
+def _window(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
+    assert isinstance(reading.value, Quantity)
+    lower = parse_quantity(params["lower"], reading.value.dimension)
+    upper = parse_quantity(params["upper"], reading.value.dimension)
+    tolerance = Tolerance(lower.dimension, _symbol(reading, context),
+                          lower.unit or _display_unit(reading, context), lower.value, upper.value)
+    return Outcome(_judge(tolerance, reading.value.value), tolerance.describe())
+
+
+def _relative_to(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
+    assert isinstance(reading.value, Quantity)
+    label, _dimension = REFERENCES[params["reference"]]
+    reference = _reference(params["reference"], context)
+    if reference is None:
+        return Outcome(Verdict.UNDETERMINED, f"{label} ±…",
+                       message=f"the nameplate gives no {label}; add it to machine.yaml")
+    lower_pct = parse_quantity(params.get("lower", "0 %"), Dimension.RATIO).value
+    upper_pct = parse_quantity(params.get("upper", "0 %"), Dimension.RATIO).value
+    lower = reference.value * (1 + lower_pct / 100)
+    upper = reference.value * (1 + upper_pct / 100)
+    unit = reference.unit or _display_unit(reading, context)
+    tolerance = Tolerance(reference.dimension, _symbol(reading, context), unit, lower, upper)
+    steps = (
+        Step(f"nameplate {label}", reference.format(), reference.value, reference.base_unit),
+        Step("window", f"{_pct(lower_pct)} … {_pct(upper_pct)} of {reference.format()}",
+             formula=f"{label} × (1 {_signed(lower_pct)}) … {label} × (1 {_signed(upper_pct)})"),
+        Step("deviation from nominal",
+             f"{_pct(100 * (reading.value.value / reference.value - 1))}",
+             100 * (reading.value.value / reference.value - 1), "%"),
+    )
+    return Outcome(_judge(tolerance, reading.value.value), tolerance.describe(), steps)
+
+
+def _article(phrase: str) -> str:
+    return "an" if phrase[:1].lower() in "aeiou" or phrase.startswith("RMS") else "a"
+
+
+def _pct(value: float) -> str:
+    return f"{value:+.2f} %".replace("+0.00", "0.00").replace("-0.00", "0.00")
+
+
+def _signed(percent: float) -> str:
+    sign = "+" if percent >= 0 else "−"
+    return f"{sign} {abs(percent) / 100:g}"
+
+
+def _current_against(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
+    """Current against a rating, on a comparable basis (RMS, average, d.c.)."""
+    assert isinstance(reading.value, Quantity)
+    reference_name = params["reference"]
+    label, _ = REFERENCES[reference_name]
+    reference = _reference(reference_name, context)
+    factor = float(params.get("factor", 1.0))
+    if reference is None:
+        return Outcome(Verdict.UNDETERMINED, f"I ≤ {label}",
+                       message=f"the nameplate gives no {label}; add it to machine.yaml")
+    if reference_name == "rated_current":
+        needed = context.nameplate.current_basis
+    else:
+        # A protective device and a conductor heat with the RMS current (IEC 60898-1 and
+        # IEC 60364-4-43 rate devices in r.m.s. terms) [M].
+        needed = Basis.RMS
+    basis = context.instrument_basis(reading)
+    limit = reference.value * factor
+    tolerance = Tolerance(Dimension.CURRENT, "I", reference.unit or "A", None, limit)
+    steps = [Step(label, reference.format(), reference.value, "A")]
+    if factor != 1.0:
+        steps.append(Step("allowed", f"{factor:g} × {reference.format()} = "
+                          f"{format_value(limit, Dimension.CURRENT, 'A')}", limit, "A"))
+    steps.append(Step("basis of the reading", basis.phrase if basis else "not stated"))
+    steps.append(Step(f"basis of the {label}", needed.phrase))
+    if basis is None:
+        return Outcome(Verdict.UNDETERMINED, tolerance.describe(), tuple(steps),
+                       message="the reading's basis is unknown; name the instrument or write "
+                               "'RMS', 'avg' or 'd.c.' after the value")
+    if basis is not needed:
+        return Outcome(
+            Verdict.UNDETERMINED, tolerance.describe(), tuple(steps),
+            message=f"{_article(basis.phrase)} {basis.phrase} reading cannot be compared with "
+                    f"{_article(needed.phrase)} {needed.phrase} "
+                    f"{label}; measure with a true-RMS instrument or attach a waveform capture")
+    steps.append(Step("loading", f"{100 * reading.value.value / limit:.1f} % of the limit",
+                      100 * reading.value.value / limit, "%"))
+    return Outcome(_judge(tolerance, reading.value.value), tolerance.describe(), tuple(steps))
+
+
+# ------------------------------------------------------------------ windings
+
+
+def _winding_resistance(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
+    from . import engineering as rc
+
+    assert isinstance(reading.value, Quantity)
+    winding = context.element
+    measured_at = reading.extras.get("temperature")
+    if measured_at is None:
+        return Outcome(Verdict.UNDETERMINED, "R at reference temperature",
+                       message="record the winding temperature with the reading "
+                               "(temperature: 21 °C) so it can be corrected")
+    reference_temperature = (winding.resistance_temperature
+                             or context.job.model.reference_temperature)
+    constant = rc.temperature_constant(winding.material, params.get("constant", "IEC 60034-1"))
+    corrected = rc.resistance_at_temperature(
+        resistance=reading.value.value, temperature=measured_at.value,
+        target_temperature=reference_temperature.value, material=constant)
+    steps = [
+        Step("winding temperature", measured_at.format(), measured_at.value, "°C"),
+        Step("conductor constant k", f"{constant.value:g} °C ({constant.describe()})",
+             constant.value, "°C"),
+        Step(f"R at {reference_temperature.format()}", format_value(corrected, Dimension.RESISTANCE,
+             reading.value.unit), corrected, "Ω",
+             formula="R₂ = R₁ · (k + θ₂) / (k + θ₁)"),
+    ]
+    if winding.resistance is None:
+        return Outcome(Verdict.RECORDED, "no nameplate value", tuple(steps),
+                       compared=f"R at {reference_temperature.format()}",
+                       message="the nameplate gives no resistance; the corrected value is "
+                               "recorded as the baseline")
+    tolerance_pct = (winding.resistance_tolerance.value if winding.resistance_tolerance
+                     else parse_quantity(params["default_tolerance"], Dimension.RATIO).value)
+    nominal = winding.resistance.value
+    tolerance = Tolerance(Dimension.RESISTANCE, "R", winding.resistance.unit,
+                          nominal * (1 - tolerance_pct / 100), nominal * (1 + tolerance_pct / 100))
+    steps.append(Step("nameplate resistance", f"{winding.resistance.format()} ± "
+                      f"{tolerance_pct:g} % at {reference_temperature.format()}", nominal, "Ω"))
+    steps.append(Step("deviation", _pct(100 * (corrected / nominal - 1)),
+                      100 * (corrected / nominal - 1), "%"))
+    note = ("nameplate tolerance" if winding.resistance_tolerance
+            else f"default tolerance ±{tolerance_pct:g} % (no tolerance on the nameplate)")
+    return Outcome(_judge(tolerance, corrected), tolerance.describe(), tuple(steps),
+                   compared=f"R at {reference_temperature.format()}", source_note=note)
+
+
+# ------------------------------------------------------------------ capacitors
+
+
+def _capacitance(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
+    assert isinstance(reading.value, Quantity)
+    capacitor = context.element
+    lower_pct, upper_pct, description = tolerance_window(capacitor.tolerance)
+    nominal = capacitor.nominal
+    tolerance = Tolerance(Dimension.CAPACITANCE, "C", nominal.unit,
+                          nominal.value * (1 + lower_pct / 100),
+                          nominal.value * (1 + upper_pct / 100))
+    steps = (
+        Step("nominal", nominal.format(), nominal.value, "F"),
+        Step("tolerance", f"{description}: {lower_pct:+g} % / {upper_pct:+g} %"),
+        Step("deviation", _pct(100 * (reading.value.value / nominal.value - 1)),
+             100 * (reading.value.value / nominal.value - 1), "%"),
+    )
+    return Outcome(_judge(tolerance, reading.value.value), tolerance.describe(), steps)
+
+
+# ------------------------------------------------------------------ temperature
+
+
+def _rise_by_resistance(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
+    from . import engineering as rc
+    from . import engineering as tr
+
+    assert isinstance(reading.value, Quantity)
+    winding = context.element
+    cold = context.reading_of(params["cold_item"], reading.element)
+    if cold is None or not isinstance(cold.value, Quantity) or "temperature" not in cold.extras:
+        return Outcome(Verdict.UNDETERMINED, "Δθ ≤ class limit",
+                       message=f"needs the cold resistance and its temperature "
+                               f"({params['cold_item']}) for this winding")
+    ambient = reading.extras.get("ambient") or context.visit.model.conditions.ambient
+    if ambient is None:
+        return Outcome(Verdict.UNDETERMINED, "Δθ ≤ class limit",
+                       message="record the ambient (coolant) temperature at the end of the "
+                               "test: 'ambient' with the reading or under conditions")
+    constant = rc.temperature_constant(winding.material, params.get("constant", "IEC 60034-1"))
+    rise = tr.rise_by_resistance(
+        cold_resistance=cold.value.value, hot_resistance=reading.value.value,
+        cold_temperature=cold.extras["temperature"].value, ambient_temperature=ambient.value,
+        material=constant)
+    if winding.rise_limit is not None:
+        limit_value = winding.rise_limit.value
+        limit_source = "manufacturer's rise limit for this winding"
+    else:
+        limit = tr.rise_limit(winding.thermal_class, params.get("standard", "IEC 60034-1"))
+        limit_value = limit.limit
+        limit_source = limit.describe()
+    tolerance = Tolerance(Dimension.TEMPERATURE_DIFFERENCE, "Δθ", "K", None, limit_value)
+    steps = (
+        Step("cold resistance R₁", cold.value.format(), cold.value.value, "Ω"),
+        Step("cold winding temperature θ₁", cold.extras["temperature"].format(),
+             cold.extras["temperature"].value, "°C"),
+        Step("hot resistance R₂", reading.value.format(), reading.value.value, "Ω"),
+        Step("ambient θa", ambient.format(), ambient.value, "°C"),
+        Step("conductor constant k", f"{constant.value:g} °C ({constant.describe()})",
+             constant.value, "°C"),
+        Step("temperature rise Δθ", format_value(rise, Dimension.TEMPERATURE_DIFFERENCE, "K"),
+             rise, "K", formula="Δθ = (R₂ − R₁)/R₁ · (k + θ₁) + θ₁ − θa"),
+        Step("limit", f"{limit_value:g} K — {limit_source}", limit_value, "K"),
+    )
+    return Outcome(_judge(tolerance, rise), tolerance.describe(), steps,
+                   compared="temperature rise Δθ", source_note=limit_source)
+
+
+def _rise_over_ambient(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
+    assert isinstance(reading.value, Quantity)
+    point = context.element
+    ambient = reading.extras.get("ambient") or context.visit.model.conditions.ambient
+    if ambient is None:
+        return Outcome(Verdict.UNDETERMINED, "θ − θa",
+                       message="record the ambient temperature under conditions")
+    rise = reading.value.value - ambient.value
+    steps = [Step("ambient θa", ambient.format(), ambient.value, "°C"),
+             Step("rise over ambient", format_value(rise, Dimension.TEMPERATURE_DIFFERENCE, "K"),
+                  rise, "K", formula="Δθ = θ − θa")]
+    if point.rise_limit is not None:
+        tolerance = Tolerance(Dimension.TEMPERATURE_DIFFERENCE, "Δθ", "K", None,
+                              point.rise_limit.value)
+        return Outcome(_judge(tolerance, rise), tolerance.describe(), tuple(steps),
+                       compared="rise over ambient", source_note="limit for this survey point")
+    if point.limit is not None:
+        tolerance = Tolerance(Dimension.TEMPERATURE, "θ", "°C", None, point.limit.value)
+        return Outcome(_judge(tolerance, reading.value.value), tolerance.describe(),
+                       tuple(steps), source_note="limit for this survey point")
+    return Outcome(Verdict.RECORDED, "no limit for this point", tuple(steps))
+
+
+# ------------------------------------------------------------------ registry
+
+_REF = tuple(REFERENCES)
+
+RULES: dict[str, Rule] = {rule.name: rule for rule in (
+    Rule("confirmed", "the step was done (yes)", {}, _confirmed, record="confirmation"),
+    Rule("at_most", "reading ≤ limit", {"limit": Param("quantity")}, _bound("max")),
+    Rule("at_least", "reading ≥ limit", {"limit": Param("quantity")}, _bound("min")),
+    Rule("window", "lower ≤ reading ≤ upper",
+         {"lower": Param("quantity"), "upper": Param("quantity")}, _window),
+    Rule("relative_to", "reading within a percentage window of a nameplate value",
+         {"reference": Param("reference", choices=_REF), "lower": Param("ratio", False),
+          "upper": Param("ratio", False)}, _relative_to, groups=(("lower", "upper"),)),
+    Rule("current_against", "current ≤ factor × a rating, on the rating's basis",
+         {"reference": Param("reference", choices=("rated_current", "protective_device")),
+          "factor": Param("number", False)}, _current_against),
+    Rule("winding_resistance", "resistance corrected to the reference temperature within "
+         "the nameplate tolerance",
+         {"default_tolerance": Param("ratio"),
+          "constant": Param("text", False, ("IEC 60034-1", "IEC 60228", "IEEE 112"))},
+         _winding_resistance),
+    Rule("capacitance_tolerance", "capacitance within the nominal's tolerance code", {},
+         _capacitance),
+    Rule("rise_by_resistance", "winding temperature rise by the resistance method within "
+         "the limit for its thermal class",
+         {"cold_item": Param("checklist item"),
+          "standard": Param("text", False, ("IEC 60034-1", "NEMA MG 1")),
+          "constant": Param("text", False, ("IEC 60034-1", "IEC 60228", "IEEE 112"))},
+         _rise_by_resistance),
+    Rule("rise_over_ambient", "surface temperature or its rise within the survey point's limit",
+         {}, _rise_over_ambient),
+)}

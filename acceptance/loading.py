@@ -1,0 +1,611 @@
+"""Load a job folder into the model, collecting every problem before giving up.
+
+Validation runs in two stages, as a reader checks a form: first each file on its
+own (types, units, dates, names), then across files (a reading names a known
+instrument, a checklist item, a machine element). Problems from every file are
+reported together, each as ``file:line:column: key.path: message``.
+"""
+
+from __future__ import annotations
+
+import difflib
+import types
+import typing
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+from pydantic import BaseModel, ValidationError
+
+from .errors import InputError, Problem
+from .model import (
+    Checklist,
+    ChecklistItem,
+    Instrument,
+    InstrumentRegister,
+    JobFile,
+    MachineFile,
+    Nameplate,
+    VisitFile,
+)
+from .resources import checklists_dir
+from .units import Dimension, Quantity, UnitError, parse_quantity
+from .yamlfile import Document, KeyPath, format_key_path, load_yaml
+
+__all__ = [
+    "Job", "LoadedChecklist", "LoadedMachine", "LoadedVisit", "Reading", "load_job",
+    "element_names", "unit_dimension", "MAX_MACHINES", "MAX_VISITS_PER_MACHINE",
+]
+
+JOB_FILE = "job.yaml"
+INSTRUMENTS_FILE = "instruments.yaml"
+MACHINES_DIR = "machines"
+VISITS_DIR = "visits"
+MAX_MACHINES = 2000
+MAX_VISITS_PER_MACHINE = 200
+
+_CONFIRM_TRUE = {"yes", "y", "done", "confirmed", "true"}
+_CONFIRM_FALSE = {"no", "n", "not done", "false"}
+_NOT_APPLICABLE = {"n/a", "na", "not applicable"}
+
+
+@dataclass(frozen=True)
+class Reading:
+    """One recorded value of one checklist item (one element of it, where per-element)."""
+
+    checklist: str
+    item: str
+    element: str | None
+    value: Quantity | bool | None  # None: left blank (not tested)
+    not_applicable: bool
+    instrument: str | None
+    extras: dict[str, Quantity]
+    note: str | None
+    file: str
+    line: int
+
+
+@dataclass
+class LoadedChecklist:
+    model: Checklist
+    document: Document
+    origin: str  # "built-in" or the job-relative path
+
+    @property
+    def id(self) -> str:
+        return self.model.checklist
+
+    def item(self, item_id: str) -> ChecklistItem | None:
+        return next((i for i in self.model.items if i.id == item_id), None)
+
+
+@dataclass
+class LoadedVisit:
+    id: str
+    machine_id: str
+    path: Path
+    document: Document
+    model: VisitFile
+    readings: dict[tuple[str, str], list[Reading]] = field(default_factory=dict)
+
+
+@dataclass
+class LoadedMachine:
+    id: str
+    folder: Path
+    document: Document
+    model: MachineFile
+    visits: list[LoadedVisit] = field(default_factory=list)
+
+
+@dataclass
+class Job:
+    root: Path
+    document: Document
+    model: JobFile
+    instruments: dict[str, Instrument]
+    instruments_document: Document | None
+    checklists: dict[str, LoadedChecklist]
+    machines: list[LoadedMachine]
+
+
+# ------------------------------------------------------------------ helpers
+
+
+def unit_dimension(unit: str) -> Dimension:
+    quantity = parse_quantity(f"1 {unit}", *Dimension)
+    return quantity.dimension
+
+
+def element_names(kind: str, nameplate: Nameplate, survey_ids: list[str]) -> list[str | None]:
+    three = nameplate.phases == 3
+    if kind == "single":
+        return [None]
+    if kind == "line":
+        return ["L1-L2", "L2-L3", "L3-L1"] if three else ["L-N"]
+    if kind == "phase":
+        return ["L1", "L2", "L3"] if three else ["L"]
+    if kind == "isolation_point":
+        if three:
+            points = ["L1-L2", "L2-L3", "L3-L1", "L1-PE", "L2-PE", "L3-PE"]
+            return [*points, "N-PE"] if nameplate.neutral else points
+        return ["L-N", "L-PE", "N-PE"]
+    if kind == "winding":
+        return [w.id for w in nameplate.windings]
+    if kind == "capacitor":
+        return [c.id for c in nameplate.capacitors]
+    if kind == "survey_point":
+        return list(survey_ids)
+    raise ValueError(kind)  # pragma: no cover - guarded by the model's Literal
+
+
+def _suggest(word: str, known: list[str]) -> str:
+    close = difflib.get_close_matches(word, known, n=1, cutoff=0.6)
+    if close:
+        return f"; did you mean '{close[0]}'?"
+    if known and len(known) <= 12:
+        return "; known: " + ", ".join(known)
+    return ""
+
+
+def _unwrap(annotation: Any) -> Any:
+    origin = typing.get_origin(annotation)
+    if origin is typing.Annotated:
+        return _unwrap(typing.get_args(annotation)[0])
+    if origin in (typing.Union, types.UnionType):
+        options = [a for a in typing.get_args(annotation) if a is not type(None)]
+        return _unwrap(options[0]) if len(options) == 1 else annotation
+    return annotation
+
+
+def _fields_at(model: type[BaseModel], loc: tuple[Any, ...]) -> list[str]:
+    """Names of the fields allowed in the mapping at ``loc`` (for 'did you mean')."""
+    current: Any = model
+    for part in loc:
+        current = _unwrap(current)
+        if isinstance(current, type) and issubclass(current, BaseModel):
+            info = current.model_fields.get(str(part))
+            if info is None:
+                return []
+            current = info.annotation
+        elif typing.get_origin(current) in (list, tuple) and isinstance(part, int):
+            current = typing.get_args(current)[0]
+        elif typing.get_origin(current) is dict:
+            current = typing.get_args(current)[1]
+        else:
+            return []
+    current = _unwrap(current)
+    if isinstance(current, type) and issubclass(current, BaseModel):
+        return list(current.model_fields)
+    return []
+
+
+def _validate(model: type[BaseModel], document: Document, problems: list[Problem]) -> Any:
+    data = document.data
+    if not isinstance(data, dict):
+        problems.append(document.problem((), "the file must hold a mapping of fields "
+                                         f"({', '.join(list(model.model_fields)[:4])}, …)"))
+        return None
+    try:
+        return model.model_validate(data)
+    except ValidationError as error:
+        for detail in error.errors(include_url=False):
+            loc = tuple(detail["loc"])
+            kind = detail["type"]
+            if kind == "extra_forbidden":
+                name = str(loc[-1])
+                known = _fields_at(model, loc[:-1])
+                message = f"unknown field '{name}'{_suggest(name, known)}"
+            elif kind == "missing":
+                message = f"required field '{loc[-1]}' is missing; add it"
+                loc = loc  # the parent mapping is located by Document.where
+            elif kind in ("value_error", "assertion_error"):
+                message = str(detail.get("ctx", {}).get("error", detail["msg"]))
+            elif kind == "literal_error":
+                expected = detail.get("ctx", {}).get("expected", "")
+                message = f"{detail['input']!r} is not allowed; use one of {expected}"
+            elif kind == "string_pattern_mismatch" and loc and loc[-1] == "category":
+                message = (f"{detail['input']!r} is not a measurement category; write it as "
+                           f"'CAT III 600 V' (IEC 61010-1)")
+            elif kind == "string_pattern_mismatch":
+                message = (f"{detail['input']!r} is not a valid id; use lower-case letters, "
+                           f"digits, '-' and '_'")
+            else:
+                message = detail["msg"][:1].lower() + detail["msg"][1:]
+                if "input" in detail and not isinstance(detail["input"], dict | list):
+                    message += f" (got {detail['input']!r})"
+            problems.append(document.problem(loc, message))
+        return None
+
+
+def _load_document(path: Path, root: Path, problems: list[Problem]) -> Document | None:
+    try:
+        return load_yaml(path, display_name=_display(path, root))
+    except InputError as error:
+        problems.extend(error.problems)
+        return None
+
+
+def _display(path: Path, root: Path) -> str:
+    try:
+        return str(path.relative_to(root.parent if root.parent != root else root))
+    except ValueError:
+        return str(path)
+
+
+# ------------------------------------------------------------------ checklists
+
+
+def _load_checklists(root: Path, problems: list[Problem]) -> dict[str, LoadedChecklist]:
+    result: dict[str, LoadedChecklist] = {}
+    sources = [(p, "built-in") for p in sorted(checklists_dir().glob("*.yaml"))]
+    local = root / "checklists"
+    if local.is_dir():
+        sources += [(p, _display(p, root)) for p in sorted(local.glob("*.yaml"))]
+    for path, origin in sources:
+        document = _load_document(path, path.parent if origin == "built-in" else root, problems)
+        if document is None:
+            continue
+        model = _validate(Checklist, document, problems)
+        if model is None:
+            continue
+        seen: set[str] = set()
+        for index, item in enumerate(model.items):
+            if item.id in seen:
+                problems.append(document.problem(("items", index, "id"),
+                                                 f"item id '{item.id}' is used twice"))
+            seen.add(item.id)
+            if item.record == "quantity":
+                if not item.unit:
+                    problems.append(document.problem(("items", index),
+                                                     "a quantity item needs a 'unit'"))
+                else:
+                    try:
+                        unit_dimension(item.unit)
+                    except UnitError as error:
+                        problems.append(document.problem(("items", index, "unit"), str(error)))
+            for name, unit in item.also_record.items():
+                try:
+                    unit_dimension(unit)
+                except UnitError as error:
+                    problems.append(
+                        document.problem(("items", index, "also_record", name), str(error)))
+        _check_rules(model, document, problems)
+        result[model.checklist] = LoadedChecklist(model, document, origin)
+    return result
+
+
+def _check_rules(model: Checklist, document: Document, problems: list[Problem]) -> None:
+    from .evaluation.rules import RULES  # late: evaluation imports loading's types
+
+    for index, item in enumerate(model.items):
+        for check_index, check in enumerate(item.checks):
+            rule = RULES.get(check.rule)
+            path: KeyPath = ("items", index, "checks", check_index)
+            if rule is None:
+                problems.append(document.problem(
+                    (*path, "rule"),
+                    f"unknown rule '{check.rule}'{_suggest(check.rule, sorted(RULES))}"))
+                continue
+            for message in rule.validate_params(check.params, item):
+                problems.append(document.problem((*path, "params"), message))
+
+
+# ------------------------------------------------------------------ readings
+
+
+def _confirmation(raw: Any) -> bool | None:
+    if isinstance(raw, bool):
+        return raw
+    if isinstance(raw, str):
+        lowered = raw.strip().lower()
+        if lowered in _CONFIRM_TRUE:
+            return True
+        if lowered in _CONFIRM_FALSE:
+            return False
+    raise UnitError(f"{raw!r} is not a confirmation; write yes or no")
+
+
+def _parse_reading(item: ChecklistItem, checklist_id: str, element: str | None, raw: Any,
+                   path: KeyPath, visit: LoadedVisit, instruments: dict[str, Instrument],
+                   problems: list[Problem]) -> Reading | None:
+    document = visit.document
+    extras: dict[str, Quantity] = {}
+    instrument = visit.model.default_instrument if item.record == "quantity" else None
+    note = None
+    value_path = path
+    if isinstance(raw, dict):
+        allowed = {"value", "instrument", "note", *item.also_record}
+        for key in raw:
+            if key not in allowed:
+                problems.append(document.problem(
+                    (*path, key), f"unknown field '{key}'{_suggest(key, sorted(allowed))}"))
+        if "value" not in raw:
+            problems.append(document.problem(path, "a reading given as a mapping needs "
+                                             "'value' (e.g. value: 230 V)"))
+            return None
+        value_raw = raw.get("value")
+        value_path = (*path, "value")
+        if raw.get("instrument") is not None:
+            instrument = str(raw["instrument"])
+            if instrument not in instruments:
+                problems.append(document.problem(
+                    (*path, "instrument"),
+                    f"instrument '{instrument}' is not in instruments.yaml"
+                    f"{_suggest(instrument, sorted(instruments))}"))
+        note = raw.get("note")
+        for name, unit in item.also_record.items():
+            if raw.get(name) is None:
+                continue
+            try:
+                extras[name] = parse_quantity(raw[name], unit_dimension(unit))
+            except UnitError as error:
+                problems.append(document.problem((*path, name), str(error)))
+    else:
+        value_raw = raw
+    line = document.where(value_path)[0]
+    common = dict(checklist=checklist_id, item=item.id, element=element, instrument=instrument,
+                  extras=extras, note=note, file=document.display_name, line=line)
+    if value_raw is None or (isinstance(value_raw, str) and not value_raw.strip()):
+        return Reading(value=None, not_applicable=False, **common)
+    if isinstance(value_raw, str) and value_raw.strip().lower() in _NOT_APPLICABLE:
+        if item.safety_critical:
+            problems.append(document.problem(
+                value_path, "a safety-critical item cannot be marked not applicable; record "
+                "the reading, or leave it blank and the visit stays incomplete"))
+            return None
+        return Reading(value=None, not_applicable=True, **common)
+    try:
+        if item.record == "confirmation":
+            value: Quantity | bool = _confirmation(value_raw)
+        else:
+            value = parse_quantity(value_raw, unit_dimension(item.unit or ""))
+            if value.dimension is Dimension.TEMPERATURE and value.value < -273.15:
+                raise UnitError("below absolute zero")
+    except UnitError as error:
+        problems.append(document.problem(value_path, str(error)))
+        return None
+    if item.record == "quantity" and instrument is None:
+        problems.append(document.problem(
+            value_path, "no instrument is named for this reading; add 'instrument: <id>' or "
+            "set default_instrument for the visit"))
+    return Reading(value=value, not_applicable=False, **common)
+
+
+def _parse_readings(visit: LoadedVisit, machine: LoadedMachine,
+                    checklists: dict[str, LoadedChecklist], instruments: dict[str, Instrument],
+                    problems: list[Problem]) -> None:
+    document = visit.document
+    applicable = machine.model.checklists
+    nameplate = machine.model.nameplate
+    survey_ids = [p.id for p in machine.model.survey_points]
+    if visit.model.default_instrument and visit.model.default_instrument not in instruments:
+        problems.append(document.problem(
+            ("default_instrument",),
+            f"instrument '{visit.model.default_instrument}' is not in instruments.yaml"
+            f"{_suggest(visit.model.default_instrument, sorted(instruments))}"))
+    for checklist_id, items in visit.model.readings.items():
+        if checklist_id not in applicable:
+            hint = _suggest(checklist_id, applicable)
+            problems.append(document.problem(
+                ("readings", checklist_id),
+                f"checklist '{checklist_id}' is not listed for this machine{hint}"))
+            continue
+        loaded = checklists.get(checklist_id)
+        if loaded is None:
+            continue  # reported against machine.yaml
+        if not isinstance(items, dict):
+            problems.append(document.problem(("readings", checklist_id),
+                                             "expected a mapping of item id → reading"))
+            continue
+        for item_id, raw in items.items():
+            item = loaded.item(item_id)
+            path: KeyPath = ("readings", checklist_id, item_id)
+            if item is None:
+                known = [i.id for i in loaded.model.items]
+                problems.append(document.problem(
+                    path, f"checklist '{checklist_id}' has no item '{item_id}'"
+                          f"{_suggest(item_id, known)}"))
+                continue
+            elements = element_names(item.per, nameplate, survey_ids)
+            parsed: list[Reading] = []
+            if item.per == "single":
+                reading = _parse_reading(item, checklist_id, None, raw, path, visit,
+                                         instruments, problems)
+                if reading:
+                    parsed.append(reading)
+            else:
+                if not isinstance(raw, dict) or "value" in raw:
+                    names = ", ".join(str(e) for e in elements) or "(none on the nameplate)"
+                    problems.append(document.problem(
+                        path, f"'{item_id}' is recorded per {item.per.replace('_', ' ')}; "
+                              f"give one reading for each of: {names}"))
+                    continue
+                for element, element_raw in raw.items():
+                    if element not in elements:
+                        problems.append(document.problem(
+                            (*path, element),
+                            f"'{element}' is not a {item.per.replace('_', ' ')} of this machine"
+                            f"{_suggest(str(element), [str(e) for e in elements])}"))
+                        continue
+                    reading = _parse_reading(item, checklist_id, element, element_raw,
+                                             (*path, element), visit, instruments, problems)
+                    if reading:
+                        parsed.append(reading)
+            visit.readings[(checklist_id, item_id)] = parsed
+
+
+# ------------------------------------------------------------------ the job
+
+
+def load_job(root: Path) -> Job:
+    """Load and validate the job folder at ``root``; raise :class:`InputError` with all problems."""
+    root = Path(root)
+    problems: list[Problem] = []
+    if not root.is_dir():
+        raise InputError.single(str(root), "is not a job folder (no such directory)")
+    if not (root / JOB_FILE).is_file():
+        raise InputError.single(str(root / JOB_FILE),
+                                "not found; a job folder starts with job.yaml (see README)")
+
+    job_document = _load_document(root / JOB_FILE, root, problems)
+    job_model = _validate(JobFile, job_document, problems) if job_document else None
+
+    instruments: dict[str, Instrument] = {}
+    instruments_document = None
+    if (root / INSTRUMENTS_FILE).is_file():
+        instruments_document = _load_document(root / INSTRUMENTS_FILE, root, problems)
+        register = (_validate(InstrumentRegister, instruments_document, problems)
+                    if instruments_document else None)
+        if register:
+            for index, instrument in enumerate(register.instruments):
+                if instrument.id in instruments:
+                    problems.append(instruments_document.problem(
+                        ("instruments", index, "id"),
+                        f"instrument id '{instrument.id}' is used twice"))
+                if (instrument.calibrated and instrument.calibration_due
+                        and instrument.calibration_due < instrument.calibrated):
+                    problems.append(instruments_document.problem(
+                        ("instruments", index, "calibration_due"),
+                        "calibration_due is before calibrated; check the dates"))
+                instruments[instrument.id] = instrument
+
+    checklists = _load_checklists(root, problems)
+    machines = _load_machines(root, checklists, instruments, problems)
+
+    if job_model is not None and job_document is not None:
+        _check_overrides(job_model, job_document, checklists, problems)
+
+    if problems or job_model is None or job_document is None:
+        raise InputError(problems)
+    return Job(root=root, document=job_document, model=job_model, instruments=instruments,
+               instruments_document=instruments_document, checklists=checklists,
+               machines=machines)
+
+
+def _check_overrides(job: JobFile, document: Document, checklists: dict[str, LoadedChecklist],
+                     problems: list[Problem]) -> None:
+    from .evaluation.rules import RULES
+
+    for index, override in enumerate(job.overrides):
+        path: KeyPath = ("overrides", index)
+        checklist_id, _, item_id = override.item.partition(".")
+        loaded = checklists.get(checklist_id)
+        item = loaded.item(item_id) if loaded else None
+        if item is None:
+            known = [f"{c}.{i.id}" for c, lc in checklists.items() for i in lc.model.items]
+            problems.append(document.problem(
+                (*path, "item"),
+                f"no checklist item '{override.item}'{_suggest(override.item, known)}"))
+            continue
+        check = next((c for c in item.checks if c.id == override.check), None)
+        if check is None:
+            known = [c.id for c in item.checks]
+            problems.append(document.problem(
+                (*path, "check"),
+                f"item '{override.item}' has no check '{override.check}'"
+                f"{_suggest(override.check, known)}"))
+            continue
+        merged = {**check.params, **override.params}
+        for message in RULES[check.rule].validate_params(merged, item):
+            problems.append(document.problem((*path, "params"), message))
+
+
+def _load_machines(root: Path, checklists: dict[str, LoadedChecklist],
+                   instruments: dict[str, Instrument],
+                   problems: list[Problem]) -> list[LoadedMachine]:
+    machines_root = root / MACHINES_DIR
+    if not machines_root.is_dir():
+        problems.append(Problem(_display(machines_root, root), 1, 1, "",
+                                "folder not found; put one folder per machine in machines/"))
+        return []
+    folders = sorted(p for p in machines_root.iterdir() if p.is_dir())
+    if len(folders) > MAX_MACHINES:
+        problems.append(Problem(_display(machines_root, root), 1, 1, "",
+                                f"{len(folders)} machines; the limit is {MAX_MACHINES}"))
+        return []
+    machines: list[LoadedMachine] = []
+    for folder in folders:
+        machine_path = folder / "machine.yaml"
+        if not machine_path.is_file():
+            problems.append(Problem(_display(machine_path, root), 1, 1, "",
+                                    "not found; every machine folder needs a machine.yaml"))
+            continue
+        document = _load_document(machine_path, root, problems)
+        model = _validate(MachineFile, document, problems) if document else None
+        if model is None or document is None:
+            continue
+        machine = LoadedMachine(id=folder.name, folder=folder, document=document, model=model)
+        _check_machine(machine, checklists, problems)
+        visits_root = folder / VISITS_DIR
+        visit_paths = sorted(visits_root.glob("*.yaml")) if visits_root.is_dir() else []
+        if len(visit_paths) > MAX_VISITS_PER_MACHINE:
+            problems.append(document.problem((), f"{len(visit_paths)} visits; the limit is "
+                                                 f"{MAX_VISITS_PER_MACHINE} per machine"))
+            visit_paths = []
+        for visit_path in visit_paths:
+            visit_document = _load_document(visit_path, root, problems)
+            visit_model = (_validate(VisitFile, visit_document, problems)
+                           if visit_document else None)
+            if visit_model is None or visit_document is None:
+                continue
+            visit = LoadedVisit(id=visit_path.stem, machine_id=machine.id, path=visit_path,
+                                document=visit_document, model=visit_model)
+            _parse_readings(visit, machine, checklists, instruments, problems)
+            _check_attachments(visit, machine, problems)
+            machine.visits.append(visit)
+        machine.visits.sort(key=lambda v: (v.model.date, v.id))
+        machines.append(machine)
+    return machines
+
+
+def _check_machine(machine: LoadedMachine, checklists: dict[str, LoadedChecklist],
+                   problems: list[Problem]) -> None:
+    document = machine.document
+    for index, checklist_id in enumerate(machine.model.checklists):
+        if checklist_id not in checklists:
+            problems.append(document.problem(
+                ("checklists", index),
+                f"no checklist '{checklist_id}'{_suggest(checklist_id, sorted(checklists))}"))
+    nameplate = machine.model.nameplate
+    for kind, entries in (("winding", nameplate.windings), ("capacitor", nameplate.capacitors),
+                          ("survey point", machine.model.survey_points)):
+        seen: set[str] = set()
+        for entry in entries:
+            if entry.id in seen:
+                problems.append(document.problem((), f"{kind} id '{entry.id}' is used twice"))
+            seen.add(entry.id)
+    from .evaluation.capacitor_codes import tolerance_window_error
+
+    for index, capacitor in enumerate(nameplate.capacitors):
+        error = tolerance_window_error(capacitor.tolerance)
+        if error:
+            problems.append(document.problem(
+                ("nameplate", "capacitors", index, "tolerance"), error))
+    if nameplate.phases == 1 and nameplate.frequency is None and nameplate.rated_voltage:
+        pass  # a d.c. supply: frequency items are not applicable
+
+
+def _check_attachments(visit: LoadedVisit, machine: LoadedMachine,
+                       problems: list[Problem]) -> None:
+    folder = machine.folder.resolve()
+    for index, attachment in enumerate(visit.model.attachments):
+        path: KeyPath = ("attachments", index, "path")
+        candidate = Path(attachment.path)
+        if candidate.is_absolute() or ".." in candidate.parts:
+            problems.append(visit.document.problem(
+                path, f"'{attachment.path}' leaves the machine folder; attachments must sit "
+                      "inside it (write a path relative to the machine folder)"))
+            continue
+        resolved = (machine.folder / candidate).resolve()
+        if not resolved.is_relative_to(folder):
+            problems.append(visit.document.problem(
+                path, f"'{attachment.path}' resolves outside the machine folder (a link?); "
+                      "copy the file into the machine folder"))
+        elif not resolved.is_file():
+            problems.append(visit.document.problem(
+                path, f"attachment '{attachment.path}' not found in {machine.folder.name}/"))
+
+
+def format_problem_path(path: KeyPath) -> str:  # re-exported for callers
+    return format_key_path(path)

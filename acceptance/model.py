@@ -1,0 +1,357 @@
+"""The input model: job, instrument register, machines, visits and checklists.
+
+Each class documents one file kind; the JSON Schemas that editors use are
+generated from these classes (``acceptance schema``). Field validation happens
+here (types, units, dates, names); checks that need several files at once
+(a reading's instrument exists, an item belongs to a checklist) happen in
+:mod:`acceptance.loading`.
+"""
+
+from __future__ import annotations
+
+import datetime as _dt
+import re
+from enum import Enum
+from typing import Annotated, Any, Literal
+
+from pydantic import BaseModel, ConfigDict, Field, PlainValidator, WithJsonSchema
+
+from .units import Basis, Dimension, Quantity, UnitError, parse_quantity
+
+__all__ = [
+    "CapacitorSpec", "CheckSpec", "Checklist", "ChecklistItem", "Conductor", "Instrument",
+    "InstrumentRegister", "JobFile", "LimitOverride", "MachineFile", "Nameplate",
+    "ProtectiveDevice", "SignOff", "Source", "StandardInForce", "SupplyCable", "SurveyPoint",
+    "VisitFile", "VisitKind", "WindingSpec", "Attachment", "parse_date", "ELEMENT_KINDS",
+]
+
+
+def _quantity(*dimensions: Dimension, example: str) -> Any:
+    def validate(value: Any) -> Quantity:
+        if isinstance(value, Quantity):
+            return value
+        try:
+            return parse_quantity(value, *dimensions)
+        except UnitError as error:
+            raise ValueError(str(error)) from None
+
+    return Annotated[
+        Quantity,
+        PlainValidator(validate),
+        WithJsonSchema({"type": "string", "examples": [example],
+                        "description": " or ".join(d.value for d in dimensions) + " with unit"}),
+    ]
+
+
+Voltage = _quantity(Dimension.VOLTAGE, example="230 V")
+Current = _quantity(Dimension.CURRENT, example="10.5 A")
+Resistance = _quantity(Dimension.RESISTANCE, example="28.0 Ω")
+Capacitance = _quantity(Dimension.CAPACITANCE, example="470 µF")
+Frequency = _quantity(Dimension.FREQUENCY, example="50 Hz")
+Temperature = _quantity(Dimension.TEMPERATURE, example="20 °C")
+TemperatureDifference = _quantity(Dimension.TEMPERATURE_DIFFERENCE, example="80 K")
+Ratio = _quantity(Dimension.RATIO, example="5 %")
+Length = _quantity(Dimension.LENGTH, example="18 m")
+Area = _quantity(Dimension.AREA, example="2.5 mm²")
+Power = _quantity(Dimension.POWER, example="2.2 kW")
+
+_DATE_RE = re.compile(r"^\d{4}-\d{2}-\d{2}$")
+
+
+def parse_date(value: Any) -> _dt.date:
+    if isinstance(value, _dt.date):
+        return value
+    if not isinstance(value, str) or not _DATE_RE.match(value.strip()):
+        raise ValueError(f"{value!r} is not a date; write it as YYYY-MM-DD, e.g. 2026-03-10")
+    try:
+        return _dt.date.fromisoformat(value.strip())
+    except ValueError:
+        raise ValueError(f"{value!r} is not a calendar date; check the month and day") from None
+
+
+Date = Annotated[
+    _dt.date,
+    PlainValidator(parse_date),
+    WithJsonSchema({"type": "string", "format": "date", "examples": ["2026-03-10"]}),
+]
+
+Identifier = Annotated[str, Field(pattern=r"^[a-z0-9][a-z0-9_-]*$", max_length=64)]
+
+
+class _Strict(BaseModel):
+    model_config = ConfigDict(extra="forbid", frozen=True, arbitrary_types_allowed=True,
+                              str_strip_whitespace=True)
+
+
+# ---------------------------------------------------------------- sources
+
+
+class Source(_Strict):
+    """Where an acceptance criterion comes from."""
+
+    kind: Literal["standard", "regulation", "manufacturer", "common practice", "job"] = Field(
+        description="standard, regulation, manufacturer's data, common practice, or a job rule")
+    document: str | None = Field(None, description="e.g. 'IEC 60204-1'")
+    edition: str | None = Field(None, description="e.g. '2016'")
+    clause: str | None = Field(None, description="clause or table, e.g. '4.3.2'")
+    note: str | None = None
+
+    def describe(self) -> str:
+        if self.kind in ("standard", "regulation") and self.document:
+            text = self.document + (f":{self.edition}" if self.edition else "")
+            if self.clause:
+                text += f", {self.clause if self.clause[:1].isalpha() else 'clause ' + self.clause}"
+        elif self.kind == "manufacturer":
+            text = "manufacturer's data" + (f" ({self.document})" if self.document else "")
+        elif self.kind == "job":
+            text = "job rule" + (f": {self.document}" if self.document else "")
+        else:
+            text = "common practice (no single published source)"
+        if self.note:
+            text += f" — {self.note}"
+        return text
+
+
+# ---------------------------------------------------------------- checklists
+
+#: What an item is recorded for: one reading, or one per element of the machine.
+ELEMENT_KINDS = ("single", "line", "phase", "isolation_point", "winding", "capacitor",
+                 "survey_point")
+
+
+class CheckSpec(_Strict):
+    """One acceptance criterion applied to an item's reading."""
+
+    id: Identifier = "limit"
+    rule: str = Field(description="name of the rule, e.g. 'at_most', 'relative_to'")
+    params: dict[str, Any] = Field(default_factory=dict)
+    source: Source
+
+
+class ChecklistItem(_Strict):
+    id: Identifier
+    title: str = Field(description="what to record")
+    record: Literal["confirmation", "quantity"]
+    unit: str | None = Field(None, description="unit the reading is written in, e.g. 'V'")
+    per: Literal["single", "line", "phase", "isolation_point", "winding", "capacitor",
+                 "survey_point"] = "single"
+    also_record: dict[str, str] = Field(
+        default_factory=dict,
+        description="further values recorded with the reading, name → unit (e.g. temperature: °C)")
+    required: bool = True
+    safety_critical: bool = False
+    applies_when: Literal["always", "capacitors", "windings", "three_phase", "survey_points",
+                          "rated_current", "protective_device"] = "always"
+    checks: list[CheckSpec] = Field(default_factory=list)
+    guidance: str | None = None
+    caution: str | None = None
+
+
+class Checklist(_Strict):
+    checklist: Identifier
+    title: str
+    version: int = 1
+    purpose: str | None = None
+    caution: str | None = None
+    items: list[ChecklistItem]
+
+
+# ---------------------------------------------------------------- job
+
+
+class StandardInForce(_Strict):
+    document: str
+    edition: str
+    title: str | None = None
+
+
+class LimitOverride(_Strict):
+    """A local rule replacing a checklist's default limit; the record shows it and why."""
+
+    item: str = Field(description="checklist.item, e.g. 'supply.voltage'")
+    check: Identifier = "limit"
+    params: dict[str, Any]
+    reason: str
+    source: Source
+
+
+class Party(_Strict):
+    name: str
+    contact: str | None = None
+
+
+class JobFile(_Strict):
+    """``job.yaml``: the site, who does the work, standards and local rules."""
+
+    title: str
+    site: Party
+    contractor: Party
+    client: Party | None = None
+    standards: list[StandardInForce] = Field(default_factory=list)
+    reference_temperature: Temperature = Field(
+        default_factory=lambda: parse_quantity("20 °C", Dimension.TEMPERATURE),
+        description="temperature winding resistances are corrected to for comparison")
+    overrides: list[LimitOverride] = Field(default_factory=list)
+    notes: str | None = None
+
+
+# ---------------------------------------------------------------- instruments
+
+_CATEGORY_RE = re.compile(r"^CAT\s*(?P<cat>I{1,3}|IV)\s+(?P<volts>\d+(?:\.\d+)?)\s*V$")
+
+
+class Instrument(_Strict):
+    id: Identifier
+    kind: str = Field(description="e.g. multimeter, clamp meter, insulation tester")
+    model: str | None = None
+    serial: str | None = None
+    response: Literal["true-rms", "average-responding", "not applicable"] = Field(
+        description="how the instrument responds to a.c.")
+    category: str | None = Field(
+        None, pattern=r"^CAT\s*(I{1,3}|IV)\s+\d+(\.\d+)?\s*V$",
+        description="measurement category and voltage (IEC 61010-1), e.g. 'CAT III 600 V'")
+    calibrated: Date | None = None
+    calibration_due: Date | None = None
+
+    @property
+    def category_rank(self) -> int | None:
+        match = _CATEGORY_RE.match(self.category or "")
+        return {"I": 1, "II": 2, "III": 3, "IV": 4}[match["cat"]] if match else None
+
+    @property
+    def category_voltage(self) -> float | None:
+        match = _CATEGORY_RE.match(self.category or "")
+        return float(match["volts"]) if match else None
+
+
+class InstrumentRegister(_Strict):
+    """``instruments.yaml``: every instrument that took a reading."""
+
+    instruments: list[Instrument]
+
+
+# ---------------------------------------------------------------- machines
+
+
+class WindingSpec(_Strict):
+    id: Identifier
+    name: str
+    material: Literal["copper", "aluminium"]
+    thermal_class: Literal["90", "105", "120", "130", "155", "180", "200", "220", "250",
+                           "Y", "A", "E", "B", "F", "H", "N", "R"] = Field(
+        description="IEC 60085 thermal class, by number or letter")
+    resistance: Resistance | None = Field(None, description="manufacturer's value")
+    resistance_tolerance: Ratio | None = None
+    resistance_temperature: Temperature | None = Field(
+        None, description="temperature the manufacturer's value is stated at")
+    rise_limit: TemperatureDifference | None = Field(
+        None, description="manufacturer's rise limit; default by thermal class")
+
+
+class CapacitorSpec(_Strict):
+    id: Identifier
+    name: str
+    nominal: Capacitance
+    tolerance: str = Field(description="IEC 60062 letter (J, K, M, …) or '±5 %'")
+    rated_voltage: Voltage | None = None
+    working_voltage: Voltage | None = Field(None, description="peak voltage in service")
+
+
+class ProtectiveDevice(_Strict):
+    description: str
+    rating: Current
+
+
+class Conductor(_Strict):
+    material: Literal["copper", "aluminium"] = "copper"
+    cross_section: Area
+
+
+class SupplyCable(Conductor):
+    length: Length
+    cores: int = Field(ge=1, le=7)
+
+
+class SurveyPoint(_Strict):
+    id: Identifier
+    name: str
+    limit: Temperature | None = Field(None, description="highest allowed temperature")
+    rise_limit: TemperatureDifference | None = Field(None, description="highest allowed rise")
+
+
+class Nameplate(_Strict):
+    rated_voltage: Voltage
+    phases: Literal[1, 3]
+    neutral: bool = Field(False, description="a neutral conductor is connected")
+    frequency: Frequency | None = Field(None, description="absent for a d.c. supply")
+    rated_current: Current | None = None
+    rated_current_basis: Literal["rms", "average", "dc"] = "rms"
+    rated_power: Power | None = None
+    duty_cycle: Ratio | None = None
+    windings: list[WindingSpec] = Field(default_factory=list)
+    capacitors: list[CapacitorSpec] = Field(default_factory=list)
+    protective_device: ProtectiveDevice | None = None
+    supply_cable: SupplyCable | None = None
+
+    @property
+    def current_basis(self) -> Basis:
+        return Basis(self.rated_current_basis)
+
+
+class MachineFile(_Strict):
+    """``machines/<id>/machine.yaml``: what is installed and what it should be."""
+
+    name: str
+    kind: str = Field(description="e.g. 'magnetic workholding table'")
+    area: str | None = Field(None, description="hall, line or area of the site")
+    manufacturer: str | None = None
+    model: str | None = None
+    serial: str | None = None
+    nameplate: Nameplate
+    survey_points: list[SurveyPoint] = Field(default_factory=list)
+    checklists: list[Identifier] = Field(description="checklists that apply to this machine")
+    notes: str | None = None
+
+
+# ---------------------------------------------------------------- visits
+
+
+class VisitKind(str, Enum):
+    COMMISSIONING = "commissioning"
+    PERIODIC = "periodic"
+    AFTER_REPAIR = "after-repair"
+
+
+class Attachment(_Strict):
+    path: str = Field(description="relative to the machine folder")
+    title: str
+
+
+class SignOff(_Strict):
+    name: str
+    role: str
+    date: Date
+    statement: str | None = None
+
+
+class Conditions(_Strict):
+    ambient: Temperature | None = None
+    weather: str | None = None
+    note: str | None = None
+
+
+class VisitFile(_Strict):
+    """``machines/<id>/visits/<visit>.yaml``: one test visit with its readings."""
+
+    kind: VisitKind
+    date: Date
+    performed_by: list[str] = Field(min_length=1)
+    default_instrument: Identifier | None = None
+    conditions: Conditions = Field(default_factory=Conditions)
+    readings: dict[str, dict[str, Any]] = Field(
+        default_factory=dict,
+        description="checklist → item → reading; a reading is '230 V', yes/no, "
+                    "{value, instrument, note, ...} or element → reading")
+    notes: str | None = Field(None, description="Markdown")
+    attachments: list[Attachment] = Field(default_factory=list)
+    sign_off: list[SignOff] = Field(default_factory=list)

@@ -1,0 +1,214 @@
+"""Results of evaluation: verdicts with every value they rest on.
+
+These objects are computed once, in :mod:`acceptance.evaluation`, and only
+displayed afterwards (terminal, HTML, PDF, JSON). ``to_json`` writes the
+versioned results schema documented in README.md.
+"""
+
+from __future__ import annotations
+
+import datetime as _dt
+from dataclasses import dataclass, field
+from enum import Enum
+from typing import Any
+
+__all__ = [
+    "RESULTS_SCHEMA", "CheckResult", "ElementResult", "ItemResult", "ChecklistResult",
+    "MachineResult", "JobResult", "Step", "Verdict", "VisitResult", "VisitState", "worst",
+]
+
+RESULTS_SCHEMA = "acceptance-results/1"
+
+
+class Verdict(str, Enum):
+    """Outcome of one check or item. Conditional statements follow ILAC-G8:09/2019 cl. 4.2."""
+
+    PASS = "pass"
+    CONDITIONAL_PASS = "conditional pass"
+    CONDITIONAL_FAIL = "conditional fail"
+    FAIL = "fail"
+    UNDETERMINED = "undetermined"  # the data cannot decide (e.g. no nameplate value)
+    NOT_TESTED = "not tested"
+    NOT_APPLICABLE = "not applicable"
+    RECORDED = "recorded"  # value kept for the record; no criterion applies
+
+    @property
+    def is_failure(self) -> bool:
+        return self in (Verdict.FAIL, Verdict.CONDITIONAL_FAIL)
+
+    @property
+    def is_open(self) -> bool:
+        """Needs someone's attention before the item can be closed."""
+        return self in (Verdict.FAIL, Verdict.CONDITIONAL_FAIL, Verdict.UNDETERMINED,
+                        Verdict.NOT_TESTED, Verdict.CONDITIONAL_PASS)
+
+    @property
+    def slug(self) -> str:
+        return self.value.replace(" ", "-")
+
+
+# Worst first: a list of verdicts rolls up to the earliest that occurs.
+_ORDER = [Verdict.FAIL, Verdict.CONDITIONAL_FAIL, Verdict.UNDETERMINED, Verdict.NOT_TESTED,
+          Verdict.CONDITIONAL_PASS, Verdict.PASS, Verdict.RECORDED, Verdict.NOT_APPLICABLE]
+
+
+def worst(verdicts: list[Verdict], empty: Verdict = Verdict.NOT_APPLICABLE) -> Verdict:
+    if not verdicts:
+        return empty
+    return min(verdicts, key=_ORDER.index)
+
+
+class VisitState(str, Enum):
+    """A visit as a whole."""
+
+    PASS = "pass"
+    PASS_WITH_DEFICIENCIES = "pass with deficiencies"
+    INCOMPLETE = "incomplete"
+    FAIL = "fail"
+
+    @property
+    def slug(self) -> str:
+        return self.value.replace(" ", "-")
+
+
+@dataclass(frozen=True)
+class Step:
+    """One intermediate value of a computation, as the record shows it."""
+
+    label: str
+    text: str  # formatted with its unit, e.g. "28.34 Ω"
+    value: float | None = None
+    unit: str = ""
+    formula: str | None = None
+
+
+@dataclass(frozen=True)
+class CheckResult:
+    id: str
+    rule: str
+    verdict: Verdict
+    limit: str  # the tolerance phrase, e.g. "207.0 V ≤ U ≤ 253.0 V"
+    source: str
+    steps: tuple[Step, ...] = ()
+    message: str | None = None
+    override: str | None = None  # reason, when a job rule replaced the default limit
+    compared: str | None = None  # which value was compared, when not the reading itself
+
+
+@dataclass(frozen=True)
+class ElementResult:
+    element: str | None
+    verdict: Verdict
+    reading: str | None  # as written, e.g. "229.8 V" or "yes"
+    value: float | None
+    unit: str
+    basis: str | None
+    instrument: str | None
+    extras: dict[str, str]
+    note: str | None
+    checks: tuple[CheckResult, ...]
+    line: int | None = None
+
+
+@dataclass(frozen=True)
+class ItemResult:
+    checklist: str
+    id: str
+    title: str
+    unit: str | None
+    safety_critical: bool
+    required: bool
+    verdict: Verdict
+    elements: tuple[ElementResult, ...]
+    guidance: str | None
+    caution: str | None
+
+    @property
+    def key(self) -> str:
+        return f"{self.checklist}.{self.id}"
+
+
+@dataclass(frozen=True)
+class ChecklistResult:
+    id: str
+    title: str
+    version: int
+    origin: str
+    caution: str | None
+    verdict: Verdict
+    items: tuple[ItemResult, ...]
+
+
+@dataclass(frozen=True)
+class VisitResult:
+    id: str
+    machine: str
+    kind: str
+    date: _dt.date
+    performed_by: tuple[str, ...]
+    state: VisitState
+    counts: dict[str, int]
+    checklists: tuple[ChecklistResult, ...]
+    conditions: dict[str, str]
+    notes: str | None
+    attachments: tuple[tuple[str, str], ...]
+    sign_off: tuple[dict[str, str], ...]
+    source_file: str
+
+    @property
+    def items(self) -> list[ItemResult]:
+        return [item for checklist in self.checklists for item in checklist.items]
+
+
+@dataclass(frozen=True)
+class MachineResult:
+    id: str
+    name: str
+    kind: str
+    area: str | None
+    nameplate: dict[str, Any]
+    visits: tuple[VisitResult, ...]
+
+    @property
+    def latest(self) -> VisitResult | None:
+        return self.visits[-1] if self.visits else None
+
+
+@dataclass(frozen=True)
+class JobResult:
+    title: str
+    site: str
+    contractor: str
+    reference_temperature: str
+    standards: tuple[str, ...]
+    overrides: tuple[dict[str, str], ...]
+    machines: tuple[MachineResult, ...]
+    tool_version: str
+    instruments: tuple[dict[str, Any], ...] = field(default=())
+
+    @property
+    def visits(self) -> list[VisitResult]:
+        return [visit for machine in self.machines for visit in machine.visits]
+
+
+def _plain(value: Any) -> Any:
+    if isinstance(value, Enum):
+        return value.value
+    if isinstance(value, _dt.date):
+        return value.isoformat()
+    if isinstance(value, dict):
+        return {str(k): _plain(v) for k, v in value.items()}
+    if isinstance(value, list | tuple):
+        return [_plain(v) for v in value]
+    if hasattr(value, "__dataclass_fields__"):
+        return {name: _plain(getattr(value, name)) for name in value.__dataclass_fields__}
+    return value
+
+
+def to_json(result: JobResult) -> dict[str, Any]:
+    """The machine-readable results (schema ``acceptance-results/1``, see README)."""
+    data = _plain(result)
+    for machine in data["machines"]:
+        latest = machine["visits"][-1]["state"] if machine["visits"] else None
+        machine["latest_state"] = latest
+    return {"schema": RESULTS_SCHEMA, **data}

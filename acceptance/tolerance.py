@@ -1,0 +1,77 @@
+"""Tolerances as value objects that evaluate a reading and describe themselves.
+
+The phrase a tolerance gives (``27.0 Ω ≤ R ≤ 29.4 Ω``, ``U ≥ 1 MΩ``) is the one
+the terminal, the HTML page and the PDF all show, so the three never disagree.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from .units import Dimension, Quantity, format_value
+
+__all__ = ["Tolerance", "Window", "AtMost", "AtLeast", "margin_phrase"]
+
+
+@dataclass(frozen=True)
+class Tolerance:
+    """Base: a closed interval, possibly one-sided, in base units of ``dimension``."""
+
+    dimension: Dimension
+    symbol: str
+    unit: str
+    lower: float | None = None
+    upper: float | None = None
+    digits: int = 4
+
+    def contains(self, value: float) -> bool:
+        if self.lower is not None and value < self.lower:
+            return False
+        return not (self.upper is not None and value > self.upper)
+
+    def _fmt(self, value: float) -> str:
+        return format_value(value, self.dimension, self.unit, self.digits)
+
+    def describe(self) -> str:
+        if self.lower is not None and self.upper is not None:
+            return f"{self._fmt(self.lower)} ≤ {self.symbol} ≤ {self._fmt(self.upper)}"
+        if self.lower is not None:
+            return f"{self.symbol} ≥ {self._fmt(self.lower)}"
+        if self.upper is not None:
+            return f"{self.symbol} ≤ {self._fmt(self.upper)}"
+        return "no limit"
+
+    def __str__(self) -> str:
+        return self.describe()
+
+    def distance_outside(self, value: float) -> float:
+        """How far ``value`` lies outside (positive) or inside (negative) the nearest limit."""
+        distances = []
+        if self.lower is not None:
+            distances.append(self.lower - value)
+        if self.upper is not None:
+            distances.append(value - self.upper)
+        return max(distances) if distances else float("-inf")
+
+
+def Window(dimension: Dimension, symbol: str, unit: str, lower: float, upper: float,  # noqa: N802
+           digits: int = 4) -> Tolerance:
+    if lower > upper:
+        raise ValueError(f"lower limit {lower} is above upper limit {upper}")
+    return Tolerance(dimension, symbol, unit, lower, upper, digits)
+
+
+def AtMost(dimension: Dimension, symbol: str, unit: str, upper: float,  # noqa: N802
+           digits: int = 4) -> Tolerance:
+    return Tolerance(dimension, symbol, unit, None, upper, digits)
+
+
+def AtLeast(dimension: Dimension, symbol: str, unit: str, lower: float,  # noqa: N802
+            digits: int = 4) -> Tolerance:
+    return Tolerance(dimension, symbol, unit, lower, None, digits)
+
+
+def margin_phrase(tolerance: Tolerance, reading: Quantity) -> str:
+    distance = tolerance.distance_outside(reading.value)
+    word = "outside" if distance > 0 else "inside"
+    return f"{format_value(abs(distance), tolerance.dimension, tolerance.unit)} {word} the limit"

@@ -1,0 +1,223 @@
+"""Read YAML without its surprises, keeping the line and column of every key.
+
+PyYAML's safe loader still follows YAML 1.1, where ``no`` is false, ``1e-3`` is a
+string, ``2026-03-10`` is a date and a repeated key silently replaces the first.
+Here the document is only *composed* by PyYAML (safe, no tags executed) and the
+node tree is turned into Python values by our own rules:
+
+- quoted scalars are strings;
+- plain ``true``/``false`` are booleans and plain ``null``/``~``/empty are None;
+- plain numbers follow YAML 1.2 (``1e-3`` is a float, ``0x1F`` and ``1_000`` are strings);
+- everything else — ``yes``, ``no``, ``on``, dates, times — stays a string, and the
+  field that wants a date or a confirmation parses it deliberately;
+- a duplicate key, an alias (``*name``), a merge key (``<<``) or a tag is an error.
+
+Every value's location is recorded by its key path so that later validation can
+say ``machine.yaml:12:5: nameplate.windings[0].material: …``.
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+import yaml
+
+from .errors import InputError, Problem
+
+__all__ = ["Document", "KeyPath", "load_yaml", "format_key_path", "MAX_FILE_BYTES"]
+
+KeyPath = tuple[str | int, ...]
+
+#: A job file is typed by hand; anything larger is a mistake or an attack.
+MAX_FILE_BYTES = 2 * 1024 * 1024
+MAX_DEPTH = 40
+
+_INT_RE = re.compile(r"^[-+]?[0-9]+$")
+_FLOAT_RE = re.compile(r"^[-+]?(\.[0-9]+|[0-9]+(\.[0-9]*)?)([eE][-+]?[0-9]+)?$")
+
+
+def format_key_path(path: KeyPath) -> str:
+    text = ""
+    for part in path:
+        if isinstance(part, int):
+            text += f"[{part}]"
+        else:
+            text += ("." if text else "") + str(part)
+    return text
+
+
+@dataclass
+class Document:
+    """A parsed YAML file: its data and where each key path sits in the text."""
+
+    path: Path
+    display_name: str
+    data: Any
+    marks: dict[KeyPath, tuple[int, int]] = field(default_factory=dict)
+
+    def where(self, path: KeyPath) -> tuple[int, int]:
+        """Line and column (1-based) of ``path``, or of its nearest located parent."""
+        probe = tuple(path)
+        while probe:
+            if probe in self.marks:
+                return self.marks[probe]
+            probe = probe[:-1]
+        return self.marks.get((), (1, 1))
+
+    def problem(self, path: KeyPath, message: str) -> Problem:
+        line, column = self.where(path)
+        return Problem(self.display_name, line, column, format_key_path(path), message)
+
+
+class _Composer(yaml.SafeLoader):
+    """Only composes nodes; construction is ours."""
+
+
+def _scalar(node: yaml.ScalarNode) -> Any:
+    value = node.value
+    if node.style in ("'", '"', "|", ">"):
+        return value
+    if node.tag not in ("tag:yaml.org,2002:str", "tag:yaml.org,2002:int",
+                        "tag:yaml.org,2002:float", "tag:yaml.org,2002:bool",
+                        "tag:yaml.org,2002:null", "tag:yaml.org,2002:timestamp",
+                        "tag:yaml.org,2002:value", "tag:yaml.org,2002:merge"):
+        raise _NodeError(node, f"YAML tag {node.tag!r} is not allowed; write a plain value")
+    if value in ("", "~", "null", "Null", "NULL"):
+        return None
+    if value in ("true", "True", "TRUE"):
+        return True
+    if value in ("false", "False", "FALSE"):
+        return False
+    if _INT_RE.match(value):
+        return int(value)
+    if _FLOAT_RE.match(value):
+        return float(value)
+    if value in (".nan", ".NaN", ".NAN", ".inf", ".Inf", ".INF", "-.inf", "-.Inf", "-.INF",
+                 "+.inf"):
+        raise _NodeError(node, f"'{value}' is not a finite number; write the measured value")
+    return value
+
+
+class _NodeError(Exception):
+    def __init__(self, node: yaml.Node, message: str):
+        self.node = node
+        self.message = message
+
+
+def _build(node: yaml.Node, path: KeyPath, marks: dict[KeyPath, tuple[int, int]],
+           problems: list[tuple[yaml.Node, KeyPath, str]], depth: int) -> Any:
+    if depth > MAX_DEPTH:
+        raise _NodeError(node, f"nesting deeper than {MAX_DEPTH} levels is not supported")
+    if isinstance(node, yaml.ScalarNode):
+        return _scalar(node)
+    if isinstance(node, yaml.SequenceNode):
+        items = []
+        for index, child in enumerate(node.value):
+            marks[(*path, index)] = (child.start_mark.line + 1, child.start_mark.column + 1)
+            try:
+                items.append(_build(child, (*path, index), marks, problems, depth + 1))
+            except _NodeError as error:
+                problems.append((error.node, (*path, index), error.message))
+                items.append(None)
+        return items
+    if isinstance(node, yaml.MappingNode):
+        mapping: dict[str, Any] = {}
+        first_seen: dict[str, int] = {}
+        for key_node, value_node in node.value:
+            if key_node.tag == "tag:yaml.org,2002:merge":
+                problems.append((key_node, path, "merge keys ('<<') are not supported; "
+                                 "write the fields out"))
+                continue
+            if not isinstance(key_node, yaml.ScalarNode):
+                problems.append((key_node, path, "a key must be a plain name"))
+                continue
+            key = str(key_node.value)
+            key_path = (*path, key)
+            if key in first_seen:
+                problems.append((key_node, key_path,
+                                 f"duplicate key '{key}' (first given on line "
+                                 f"{first_seen[key]}); keep one of them"))
+                continue
+            first_seen[key] = key_node.start_mark.line + 1
+            marks[key_path] = (key_node.start_mark.line + 1, key_node.start_mark.column + 1)
+            try:
+                mapping[key] = _build(value_node, key_path, marks, problems, depth + 1)
+            except _NodeError as error:
+                problems.append((error.node, key_path, error.message))
+                mapping[key] = None
+        return mapping
+    raise _NodeError(node, "unsupported YAML node")  # pragma: no cover
+
+
+class _NoAliasComposer(_Composer):
+    def compose_node(self, parent, index):  # type: ignore[override]
+        if self.check_event(yaml.AliasEvent):
+            event = self.peek_event()
+            raise yaml.MarkedYAMLError(
+                None, None,
+                "aliases ('*name') are not supported in job files; repeat the value instead",
+                event.start_mark,
+            )
+        return super().compose_node(parent, index)
+
+
+def load_yaml(path: Path, display_name: str | None = None,
+              max_bytes: int = MAX_FILE_BYTES) -> Document:
+    """Parse ``path``; raise :class:`InputError` listing every problem found."""
+    name = display_name or str(path)
+    try:
+        raw = path.read_bytes()
+    except FileNotFoundError:
+        raise InputError.single(name, "file not found") from None
+    except OSError as error:
+        raise InputError.single(name, f"cannot be read: {error.strerror}") from None
+    if len(raw) > max_bytes:
+        raise InputError.single(
+            name, f"file is {len(raw)} bytes; the limit is {max_bytes} bytes for a YAML file"
+        )
+    if raw.startswith(b"\xef\xbb\xbf"):
+        raw = raw[3:]  # a UTF-8 byte order mark is harmless; editors on some systems add it
+    try:
+        text = raw.decode("utf-8")
+    except UnicodeDecodeError as error:
+        line = raw[: error.start].count(b"\n") + 1
+        column = error.start - (raw.rfind(b"\n", 0, error.start) + 1) + 1
+        raise InputError.single(
+            name,
+            f"byte 0x{raw[error.start]:02x} is not valid UTF-8; save the file as UTF-8",
+            line, column,
+        ) from None
+    for number, line_text in enumerate(text.splitlines(), start=1):
+        indent = line_text[: len(line_text) - len(line_text.lstrip(" \t"))]
+        if "\t" in indent:
+            raise InputError.single(
+                name, "a tab is used for indentation; indent with spaces", number,
+                indent.index("\t") + 1,
+            )
+    loader = _NoAliasComposer(text)
+    try:
+        node = loader.get_single_node()
+    except yaml.MarkedYAMLError as error:
+        mark = error.problem_mark or error.context_mark
+        line, column = (mark.line + 1, mark.column + 1) if mark else (1, 1)
+        message = (error.problem or str(error)).strip()
+        if error.context and "alias" not in message:
+            message = f"{error.context.strip()}: {message}"
+        raise InputError.single(name, f"not valid YAML: {message}", line, column) from None
+    except yaml.YAMLError as error:
+        raise InputError.single(name, f"not valid YAML: {error}") from None
+    finally:
+        loader.dispose()
+    marks: dict[KeyPath, tuple[int, int]] = {(): (1, 1)}
+    problems: list[tuple[yaml.Node, KeyPath, str]] = []
+    data = None if node is None else _build(node, (), marks, problems, 0)
+    if problems:
+        raise InputError([
+            Problem(name, n.start_mark.line + 1, n.start_mark.column + 1,
+                    format_key_path(p), message)
+            for n, p, message in problems
+        ])
+    return Document(path=path, display_name=name, data=data, marks=marks)
