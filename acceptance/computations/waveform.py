@@ -694,7 +694,8 @@ def harmonic_spectrum(samples: ArrayLike, sample_interval: float,
     reduced, factor = (values, 1) if factor == 1 else _block_means(values, values.size // factor)
     reduced_interval = interval * factor
     window_samples = cycles / (frequency * reduced_interval)
-    while windows > 1 and int(round((windows - 1) * window_samples)) + window_samples > reduced.size:
+    while (windows > 1
+           and int(round((windows - 1) * window_samples)) + window_samples > reduced.size):
         windows -= 1
     bin_count = orders * cycles + cycles // 2 + 2
     correction = 1.0 / _block_mean_response(
