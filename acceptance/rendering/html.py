@@ -1,0 +1,91 @@
+"""HTML pages from results: a Jinja2 environment that autoescapes and fails on undefined names.
+
+Templates live in ``site_templates/``; nothing here decides a verdict, it only
+passes the results (and the page's position in the site, for relative links)
+to the templates.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Any
+
+import jinja2
+from markdown_it import MarkdownIt
+from markupsafe import Markup
+
+from ..resources import templates_dir
+from ..results import Verdict, VisitState
+
+__all__ = ["make_environment", "render_markdown", "VERDICT_SHAPES", "STATE_SHAPES"]
+
+# Each verdict has a word and a shape, so a record reads in grey-scale print and for
+# readers who do not tell colours apart (NAMING.md: more than colour alone).
+VERDICT_SHAPES: dict[Verdict, str] = {
+    Verdict.PASS: "✓",
+    Verdict.CONDITIONAL_PASS: "✓?",
+    Verdict.CONDITIONAL_FAIL: "✗?",
+    Verdict.FAIL: "✗",
+    Verdict.UNDETERMINED: "?",
+    Verdict.NOT_TESTED: "○",
+    Verdict.NOT_APPLICABLE: "–",
+    Verdict.RECORDED: "·",
+}
+STATE_SHAPES: dict[VisitState, str] = {
+    VisitState.PASS: "✓",
+    VisitState.PASS_WITH_DEFICIENCIES: "!",
+    VisitState.INCOMPLETE: "○",
+    VisitState.FAIL: "✗",
+}
+
+_SAFE_SCHEMES = ("http:", "https:", "mailto:")
+
+
+def _markdown() -> MarkdownIt:
+    md = MarkdownIt("commonmark", {"html": False, "linkify": False, "typographer": False})
+    md.disable("image")  # notes never pull files into the record; attachments are listed
+
+    def validate_link(url: str) -> bool:
+        lowered = url.strip().lower()
+        if ":" not in lowered.split("/")[0]:
+            return not lowered.startswith("//")  # relative links stay inside the site
+        return lowered.startswith(_SAFE_SCHEMES)
+
+    md.validateLink = validate_link  # type: ignore[method-assign]
+    return md
+
+
+_MD = _markdown()
+
+
+def render_markdown(text: str | None) -> Markup:
+    """Markdown with raw HTML off and links limited to http, https, mailto and relative."""
+    if not text:
+        return Markup("")
+    return Markup(_MD.render(text))  # noqa: S704 - markdown-it escapes; raw HTML is off
+
+
+def _verdict_badge(verdict: Verdict | VisitState) -> Markup:
+    shape = (VERDICT_SHAPES[verdict] if isinstance(verdict, Verdict)
+             else STATE_SHAPES[verdict])
+    return Markup('<span class="badge v-{slug}"><span class="shape" aria-hidden="true">'
+                  '{shape}</span> {word}</span>').format(
+        slug=verdict.slug, shape=shape, word=verdict.value)
+
+
+def make_environment(extra_globals: dict[str, Any] | None = None,
+                     directory: Path | None = None) -> jinja2.Environment:
+    env = jinja2.Environment(
+        loader=jinja2.FileSystemLoader(str(directory or templates_dir())),
+        autoescape=jinja2.select_autoescape(("html", "j2", "svg", "xml"), default=True),
+        undefined=jinja2.StrictUndefined,
+        trim_blocks=True,
+        lstrip_blocks=True,
+        keep_trailing_newline=True,
+    )
+    env.filters["markdown"] = render_markdown
+    env.filters["badge"] = _verdict_badge
+    env.globals.update(extra_globals or {})
+    env.globals["Verdict"] = Verdict
+    env.globals["VisitState"] = VisitState
+    return env

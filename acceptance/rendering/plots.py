@@ -1,0 +1,397 @@
+"""Geometry of the capture plots: a few cycles of voltage and current, and a harmonic spectrum.
+
+Python computes coordinates, ticks and labels only; the SVG markup is in
+``site_templates/plots/waveform.svg.j2`` and ``site_templates/plots/spectrum.svg.j2``.
+Traces differ by dash pattern as well as by grey level, so a plot reads in grey-scale
+print. Long captures are reduced to the minimum and maximum per pixel column before they
+become polylines, which keeps an SVG small without hiding peaks.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+from dataclasses import dataclass
+
+import jinja2
+import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
+__all__ = [
+    "Bar",
+    "Legend",
+    "Panel",
+    "PlotTrace",
+    "SpectrumPlot",
+    "Tick",
+    "TracePath",
+    "WaveformPlot",
+    "decimate_min_max",
+    "format_tick",
+    "nice_step",
+    "nice_ticks",
+    "render_spectrum_svg",
+    "render_waveform_svg",
+    "spectrum_plot",
+    "waveform_plot",
+]
+
+WAVEFORM_TEMPLATE = "plots/waveform.svg.j2"
+SPECTRUM_TEMPLATE = "plots/spectrum.svg.j2"
+
+# Solid, dashed, dotted, dash-dot: distinct in grey-scale print and for colour-blind readers.
+_DASHES = ("", "7 4", "2 3", "9 3 2 3")
+_GREYS = ("#000000", "#404040", "#000000", "#606060")
+_QUANTITY = {"V": "Voltage", "A": "Current"}
+_MINUS = "\u2212"
+
+_MARGIN_LEFT = 64.0
+_MARGIN_RIGHT = 16.0
+_MARGIN_TOP = 34.0
+_PANEL_GAP = 22.0
+_AXIS_SPACE = 40.0
+
+
+@dataclass(frozen=True)
+class PlotTrace:
+    """One channel to plot: legend label, physical unit and values [unit]."""
+
+    label: str
+    unit: str
+    values: ArrayLike
+
+
+@dataclass(frozen=True)
+class Tick:
+    """A tick: its position along the axis [px] and its label."""
+
+    position: float
+    label: str
+
+
+@dataclass(frozen=True)
+class TracePath:
+    """A polyline: ``points`` is the SVG ``points`` attribute."""
+
+    label: str
+    points: str
+    dash: str
+    stroke: str
+    point_count: int
+
+
+@dataclass(frozen=True)
+class Legend:
+    """A legend entry: a short line sample from (x1, y) to (x2, y) and its text at x2 + 6."""
+
+    label: str
+    x1: float
+    x2: float
+    y: float
+    dash: str
+    stroke: str
+
+
+@dataclass(frozen=True)
+class Panel:
+    """One plotting area with its own y axis."""
+
+    x: float
+    y: float
+    width: float
+    height: float
+    y_label: str
+    y_ticks: tuple[Tick, ...]
+    zero: float | None
+    traces: tuple[TracePath, ...]
+    legend: tuple[Legend, ...]
+
+
+@dataclass(frozen=True)
+class WaveformPlot:
+    """Stacked panels sharing a time axis, one panel per physical unit."""
+
+    width: float
+    height: float
+    title: str
+    panels: tuple[Panel, ...]
+    x_label: str
+    x_ticks: tuple[Tick, ...]
+    x_axis_y: float
+
+
+@dataclass(frozen=True)
+class Bar:
+    """One harmonic bar: rectangle [px], order and its percentage text."""
+
+    order: int
+    x: float
+    y: float
+    width: float
+    height: float
+    value_label: str
+    show_value: bool
+
+
+@dataclass(frozen=True)
+class SpectrumPlot:
+    """Bar chart of harmonics in percent of the fundamental."""
+
+    width: float
+    height: float
+    title: str
+    x: float
+    y: float
+    plot_width: float
+    plot_height: float
+    x_label: str
+    y_label: str
+    x_ticks: tuple[Tick, ...]
+    y_ticks: tuple[Tick, ...]
+    bars: tuple[Bar, ...]
+    note: str
+
+
+# --------------------------------------------------------------------------- ticks
+
+
+def nice_step(span: float, target_count: int = 5) -> float:
+    """A 1-2-5 step giving about ``target_count`` intervals over ``span``."""
+    if not (math.isfinite(span) and span > 0.0):
+        return 1.0
+    raw = span / max(1, target_count)
+    magnitude = 10.0 ** math.floor(math.log10(raw))
+    for multiple in (1.0, 2.0, 5.0, 10.0):
+        if raw <= multiple * magnitude * (1.0 + 1e-9):
+            return multiple * magnitude
+    return 10.0 * magnitude
+
+
+def nice_ticks(low: float, high: float,
+               target_count: int = 5) -> tuple[float, float, tuple[float, ...]]:
+    """Axis limits widened to whole steps, and the tick values between them."""
+    if not (math.isfinite(low) and math.isfinite(high)):
+        low, high = 0.0, 1.0
+    if high < low:
+        low, high = high, low
+    if high == low:
+        pad = abs(low) * 0.1 or 1.0
+        low, high = low - pad, high + pad
+    step = nice_step(high - low, target_count)
+    first = math.floor(low / step + 1e-9)
+    last = math.ceil(high / step - 1e-9)
+    values = tuple(round(k * step, 12) + 0.0 for k in range(first, last + 1))
+    return values[0], values[-1], values
+
+
+def format_tick(value: float, step: float) -> str:
+    """Tick text with as many decimals as the step needs and a true minus sign."""
+    decimals = max(0, -math.floor(math.log10(step) + 1e-9)) if step > 0 else 0
+    text = f"{abs(value):.{decimals}f}"
+    if value < 0 and float(text) != 0.0:
+        return _MINUS + text
+    return text
+
+
+# --------------------------------------------------------------------------- decimation
+
+
+def decimate_min_max(time: ArrayLike, values: ArrayLike,
+                     columns: int) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
+    """Keep the minimum and maximum of each of ``columns`` equal time slices.
+
+    Parameters
+    ----------
+    time : array_like
+        Increasing sample times [s].
+    values : array_like
+        Samples [unit].
+    columns : int
+        Pixel columns across the plot [unitless].
+
+    Returns
+    -------
+    tuple of numpy.ndarray
+        Times and values, at most ``2·columns`` points, in time order; within a column the
+        extreme reached first comes first, so edges keep their direction.
+    """
+    t = np.asarray(time, dtype=np.float64)
+    y = np.asarray(values, dtype=np.float64)
+    if t.size <= 2 * columns or t.size < 2:
+        return t, y
+    span = t[-1] - t[0]
+    index = np.minimum(((t - t[0]) / span * columns).astype(np.int64), columns - 1)
+    starts = np.flatnonzero(np.diff(index, prepend=-1))
+    ends = np.append(starts[1:], t.size) - 1
+    lows = np.minimum.reduceat(y, starts)
+    highs = np.maximum.reduceat(y, starts)
+    rising = y[starts] <= y[ends]
+    first = np.where(rising, lows, highs)
+    second = np.where(rising, highs, lows)
+    out_y = np.column_stack((first, second)).ravel()
+    out_t = np.column_stack((t[starts], t[ends])).ravel()
+    return out_t, out_y
+
+
+def _points(xs: NDArray[np.float64], ys: NDArray[np.float64]) -> str:
+    return " ".join(f"{x:.1f},{y:.1f}" for x, y in zip(xs.tolist(), ys.tolist(), strict=True))
+
+
+# --------------------------------------------------------------------------- waveform
+
+
+def _time_unit(span: float) -> tuple[str, float]:
+    if span < 2e-3:
+        return "µs", 1e6
+    if span < 2.0:
+        return "ms", 1e3
+    return "s", 1.0
+
+
+def waveform_plot(time: ArrayLike, traces: Sequence[PlotTrace], *,
+                  frequency: float | None = None, cycles: float = 3.0,
+                  title: str = "", width: float = 720.0,
+                  panel_height: float = 170.0) -> WaveformPlot:
+    """Lay out a few cycles of each trace in stacked panels, one per unit.
+
+    Parameters
+    ----------
+    time : array_like
+        Sample times [s].
+    traces : sequence of PlotTrace
+        Channels to draw; traces with the same unit share a panel.
+    frequency : float, optional
+        Fundamental; with it, ``cycles`` cycles from the first sample are shown, otherwise
+        the whole capture [Hz].
+    cycles : float, optional
+        Cycles shown [unitless].
+    title : str, optional
+    width, panel_height : float, optional
+        Overall width and height of each panel [px].
+    """
+    t = np.asarray(time, dtype=np.float64)
+    if not traces:
+        raise ValueError("waveform_plot needs at least one trace")
+    stop = t.size
+    if frequency and frequency > 0:
+        stop = int(np.searchsorted(t, t[0] + cycles / frequency, side="right"))
+        stop = max(2, min(t.size, stop))
+    shown = t[:stop] - t[0]
+    span = float(shown[-1]) if shown.size > 1 else 1.0
+    unit_name, unit_scale = _time_unit(span)
+    plot_width = width - _MARGIN_LEFT - _MARGIN_RIGHT
+    _, x_high, x_values = nice_ticks(0.0, span * unit_scale, 6)
+    x_high = max(x_high, 1e-300)
+    columns = max(2, int(plot_width))
+
+    units = list(dict.fromkeys(trace.unit for trace in traces))
+    panels = []
+    for panel_index, unit in enumerate(units):
+        top = _MARGIN_TOP + panel_index * (panel_height + _PANEL_GAP)
+        members = [(k, trace) for k, trace in enumerate(traces) if trace.unit == unit]
+        decimated = [decimate_min_max(shown, np.asarray(trace.values, dtype=np.float64)[:stop],
+                                      columns) for _, trace in members]
+        low = min(float(np.min(v)) for _, v in decimated)
+        high = max(float(np.max(v)) for _, v in decimated)
+        y_low, y_high, y_values = nice_ticks(low, high, 4)
+        y_step = y_values[1] - y_values[0] if len(y_values) > 1 else 1.0
+
+        def to_y(values: NDArray[np.float64], top: float = top, y_low: float = y_low,
+                 y_high: float = y_high) -> NDArray[np.float64]:
+            return top + panel_height * (1.0 - (values - y_low) / (y_high - y_low))
+
+        paths = []
+        legend = []
+        for position, ((index, trace), (ts, vs)) in enumerate(zip(members, decimated,
+                                                                 strict=True)):
+            xs = _MARGIN_LEFT + ts * unit_scale / x_high * plot_width
+            dash, stroke = _DASHES[index % len(_DASHES)], _GREYS[index % len(_GREYS)]
+            paths.append(TracePath(trace.label, _points(xs, to_y(vs)), dash, stroke, xs.size))
+            legend_x = _MARGIN_LEFT + plot_width - 150.0
+            legend.append(Legend(trace.label, legend_x, legend_x + 28.0,
+                                 top + 14.0 + 14.0 * position, dash, stroke))
+        zero = float(to_y(np.array([0.0]))[0]) if y_low < 0.0 < y_high else None
+        y_ticks = tuple(Tick(float(to_y(np.array([v]))[0]), format_tick(v, y_step))
+                        for v in y_values)
+        panels.append(Panel(
+            x=_MARGIN_LEFT, y=top, width=plot_width, height=panel_height,
+            y_label=f"{_QUANTITY.get(unit, unit)} [{unit}]", y_ticks=y_ticks, zero=zero,
+            traces=tuple(paths), legend=tuple(legend)))
+
+    x_step = x_values[1] - x_values[0] if len(x_values) > 1 else 1.0
+    x_ticks = tuple(Tick(_MARGIN_LEFT + v / x_high * plot_width, format_tick(v, x_step))
+                    for v in x_values)
+    axis_y = _MARGIN_TOP + len(units) * panel_height + (len(units) - 1) * _PANEL_GAP
+    return WaveformPlot(
+        width=width, height=axis_y + _AXIS_SPACE, title=title, panels=tuple(panels),
+        x_label=f"Time [{unit_name}]", x_ticks=x_ticks, x_axis_y=axis_y)
+
+
+def render_waveform_svg(env: jinja2.Environment, time: ArrayLike,
+                        traces: Sequence[PlotTrace], **layout: object) -> str:
+    """SVG of :func:`waveform_plot` (keyword arguments pass through) from its template."""
+    plot = waveform_plot(time, traces, **layout)  # type: ignore[arg-type]
+    return env.get_template(WAVEFORM_TEMPLATE).render(plot=plot)
+
+
+# --------------------------------------------------------------------------- spectrum
+
+
+def spectrum_plot(orders: Sequence[int], percent_of_fundamental: Sequence[float], *,
+                  title: str = "", include_fundamental: bool = True,
+                  width: float = 720.0, height: float = 280.0,
+                  note: str = "") -> SpectrumPlot:
+    """Lay out a bar per harmonic order, height in percent of the fundamental.
+
+    Parameters
+    ----------
+    orders : sequence of int
+        Harmonic orders, 1 first.
+    percent_of_fundamental : sequence of float
+        Magnitude of each order over the fundamental [%].
+    title : str, optional
+    include_fundamental : bool, optional
+        Draw the 100 % bar of order 1.
+    width, height : float, optional
+        [px].
+    note : str, optional
+        A line under the chart, e.g. the window and basis used.
+    """
+    pairs = [(int(o), float(p)) for o, p in zip(orders, percent_of_fundamental, strict=True)
+             if include_fundamental or int(o) != 1]
+    if not pairs:
+        raise ValueError("spectrum_plot needs at least one harmonic order")
+    left, top = _MARGIN_LEFT, _MARGIN_TOP
+    plot_width = width - _MARGIN_LEFT - _MARGIN_RIGHT
+    plot_height = height - _MARGIN_TOP - _AXIS_SPACE - (14.0 if note else 0.0)
+    highest = max(p for _, p in pairs)
+    _, y_high, y_values = nice_ticks(0.0, max(highest, 1e-9), 5)
+    y_step = y_values[1] - y_values[0] if len(y_values) > 1 else 1.0
+    first_order = pairs[0][0]
+    last_order = pairs[-1][0]
+    slot = plot_width / (last_order - first_order + 1)
+    bars = []
+    for order, percent in pairs:
+        bar_height = plot_height * percent / y_high
+        bars.append(Bar(
+            order=order, x=left + (order - first_order + 0.15) * slot,
+            y=top + plot_height - bar_height, width=0.7 * slot, height=bar_height,
+            value_label=f"{percent:.0f}" if percent >= 10 else f"{percent:.1f}",
+            show_value=percent >= 0.05 * y_high and slot >= 12.0))
+    label_every = 1 if slot >= 18 else 5
+    x_ticks = tuple(Tick(left + (order - first_order + 0.5) * slot, str(order))
+                    for order, _ in pairs
+                    if order == first_order or order % label_every == 0)
+    y_ticks = tuple(Tick(top + plot_height * (1.0 - v / y_high), format_tick(v, y_step))
+                    for v in y_values)
+    return SpectrumPlot(
+        width=width, height=height, title=title, x=left, y=top, plot_width=plot_width,
+        plot_height=plot_height, x_label="Harmonic order", y_label="% of fundamental",
+        x_ticks=x_ticks, y_ticks=y_ticks, bars=tuple(bars), note=note)
+
+
+def render_spectrum_svg(env: jinja2.Environment, orders: Sequence[int],
+                        percent_of_fundamental: Sequence[float], **layout: object) -> str:
+    """SVG of :func:`spectrum_plot` (keyword arguments pass through) from its template."""
+    plot = spectrum_plot(orders, percent_of_fundamental, **layout)  # type: ignore[arg-type]
+    return env.get_template(SPECTRUM_TEMPLATE).render(plot=plot)
