@@ -17,6 +17,7 @@ COMMANDS: tuple[tuple[str, str], ...] = (
     ("check", "evaluate a job and print a summary of every visit"),
     ("build", "write the HTML site, a PDF per visit and the results file"),
     ("capture", "analyse a scope capture (CSV): RMS, meter readings, harmonics"),
+    ("schema", "write the JSON Schemas of every file kind (for editors)"),
 )
 
 
