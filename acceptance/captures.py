@@ -408,6 +408,8 @@ def read_capture(path: str | Path, channels: Sequence[str] | None = None,
     except UnicodeDecodeError as error:
         line = raw[:error.start].count(b"\n") + 1
         raise InputError.single(source, "the capture is not UTF-8 text", line=line) from None
+    if "\r" in text:
+        text = text.replace("\r\n", "\n").replace("\r", "\n")
 
     position = 0
     line_number = 1
@@ -598,8 +600,7 @@ def _clipping(recorded: NDArray[np.float64], samples_per_cycle: float,
 
 
 def _as_input_error(error: ComputationError, data: CaptureData, channel: str) -> InputError:
-    return InputError.single(data.source, f"{channel}: {error}", line=data.line_of(0),
-                             key_path=channel)
+    return InputError.single(data.source, str(error), line=data.line_of(0), key_path=channel)
 
 
 def analyse_capture(path: str | Path, channels: Mapping[str, ChannelScaling],

@@ -25,7 +25,13 @@ from pathlib import Path
 import numpy as np
 from numpy.typing import NDArray
 
-__all__ = ["RectifierRun", "simulate_bridge_rectifier", "write_demo_capture"]
+__all__ = [
+    "DEMO_CAPTURE",
+    "RectifierRun",
+    "simulate_bridge_rectifier",
+    "write_demo_capture",
+    "write_mag_table_demo",
+]
 
 
 @dataclass(frozen=True)
@@ -126,3 +132,23 @@ def write_demo_capture(path: str | Path, run: RectifierRun, voltage_probe_ratio:
                  for t, a, b in zip(run.time, channel_1, channel_2, strict=True))
     target.write_text("\n".join(lines) + "\n", encoding="utf-8")
     return target
+
+
+DEMO_CAPTURE = Path("demo_job/machines/mag-table-1/captures/line-current.csv")
+
+
+def write_mag_table_demo(path: str | Path = DEMO_CAPTURE) -> Path:
+    """The demo job's capture: an invented magnetic table's 28 Ω coil on 230 V 50 Hz."""
+    run = simulate_bridge_rectifier(supply_rms=230.0, frequency=50.0, source_resistance=0.5,
+                                    source_inductance=0.5e-3, capacitance=2200e-6,
+                                    load_resistance=28.0, sample_rate=20_000.0, duration=0.3)
+    return write_demo_capture(path, run, comments=(
+        "Demo capture (simulated): mag-table-1 coil supply, line side of the rectifier",
+        "CH1 supply voltage through a x100 differential probe; CH2 line current through a "
+        "10 mV/A current probe",
+        "20 kS/s, 0.3 s; values in volts at the probe outputs",
+    ))
+
+
+if __name__ == "__main__":
+    print(write_mag_table_demo())

@@ -385,6 +385,14 @@ def _coarse_peak(ac: NDArray[np.float64], sample_interval: float) -> float:
     search = spectrum[lowest_bin:-1]
     peak_bin = lowest_bin + int(np.argmax(search))
     peak_value = float(spectrum[peak_bin])
+    below = float(spectrum[1:lowest_bin].max()) if lowest_bin > 1 else 0.0
+    if below > peak_value:
+        # The strongest line is slower than two cycles per capture: a fundamental with fewer
+        # than two whole cycles, which no window can hold.
+        duration = count * sample_interval
+        raise ComputationError(
+            f"the capture of {duration:.6g} s holds fewer than two cycles of its strongest "
+            f"line (below {2.0 / duration:.6g} Hz); at least two full cycles are needed")
     # Distorted waveforms can hold a harmonic stronger than the fundamental; prefer the lowest
     # line that is a whole fraction of the peak and still clearly present.
     for divisor in range(8, 1, -1):
