@@ -63,6 +63,7 @@ class Reading:
     note: str | None
     file: str
     line: int
+    range: Quantity | None = None  # the instrument range, when the reading names one
 
 
 @dataclass
@@ -311,11 +312,12 @@ def _parse_reading(item: ChecklistItem, checklist_id: str, element: str | None, 
                    problems: list[Problem]) -> Reading | None:
     document = visit.document
     extras: dict[str, Quantity] = {}
+    range_holder: list[Quantity] = []
     instrument = visit.model.default_instrument if item.record == "quantity" else None
     note = None
     value_path = path
     if isinstance(raw, dict):
-        allowed = {"value", "instrument", "note", *item.also_record}
+        allowed = {"value", "instrument", "note", "range", *item.also_record}
         for key in raw:
             if key not in allowed:
                 problems.append(document.problem(
@@ -334,6 +336,13 @@ def _parse_reading(item: ChecklistItem, checklist_id: str, element: str | None, 
                     f"instrument '{instrument}' is not in instruments.yaml"
                     f"{_suggest(instrument, sorted(instruments))}"))
         note = raw.get("note")
+        if raw.get("range") is not None and item.unit:
+            try:
+                extras_range = parse_quantity(raw["range"], unit_dimension(item.unit))
+            except UnitError as error:
+                problems.append(document.problem((*path, "range"), str(error)))
+            else:
+                range_holder.append(extras_range)
         for name, unit in item.also_record.items():
             if raw.get(name) is None:
                 continue
@@ -345,7 +354,8 @@ def _parse_reading(item: ChecklistItem, checklist_id: str, element: str | None, 
         value_raw = raw
     line = document.where(value_path)[0]
     common = dict(checklist=checklist_id, item=item.id, element=element, instrument=instrument,
-                  extras=extras, note=note, file=document.display_name, line=line)
+                  extras=extras, note=note, file=document.display_name, line=line,
+                  range=range_holder[0] if range_holder else None)
     if value_raw is None or (isinstance(value_raw, str) and not value_raw.strip()):
         return Reading(value=None, not_applicable=False, **common)
     if isinstance(value_raw, str) and value_raw.strip().lower() in _NOT_APPLICABLE:
@@ -463,6 +473,7 @@ def load_job(root: Path) -> Job:
                     problems.append(instruments_document.problem(
                         ("instruments", index, "id"),
                         f"instrument id '{instrument.id}' is used twice"))
+                _check_accuracy(instrument, index, instruments_document, problems)
                 if (instrument.calibrated and instrument.calibration_due
                         and instrument.calibration_due < instrument.calibrated):
                     problems.append(instruments_document.problem(
@@ -481,6 +492,36 @@ def load_job(root: Path) -> Job:
     return Job(root=root, document=job_document, model=job_model, instruments=instruments,
                instruments_document=instruments_document, checklists=checklists,
                machines=machines)
+
+
+def _check_accuracy(instrument: Instrument, index: int, document: Document,
+                    problems: list[Problem]) -> None:
+    from .computations.uncertainty import ACCURACY_FORMS, parse_accuracy_specification
+    from .computations import ComputationError
+
+    for number, entry in enumerate(instrument.functions):
+        path: KeyPath = ("instruments", index, "functions", number)
+        try:
+            dimension = unit_dimension(entry.measures)
+        except UnitError as error:
+            problems.append(document.problem((*path, "measures"), str(error)))
+            continue
+        for name in ("range", "resolution"):
+            text = getattr(entry, name)
+            if text is None:
+                continue
+            try:
+                parse_quantity(text, dimension)
+            except UnitError as error:
+                problems.append(document.problem((*path, name), str(error)))
+        try:
+            parse_accuracy_specification(entry.accuracy)
+        except ComputationError as error:
+            message = str(error)
+            if "accepted forms" not in message:
+                message += "; accepted forms: " + "; ".join(ACCURACY_FORMS)
+            problems.append(document.problem(
+                (*path, "accuracy"), f"instrument '{instrument.id}': {message}"))
 
 
 def _check_overrides(job: JobFile, document: Document, checklists: dict[str, LoadedChecklist],

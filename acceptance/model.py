@@ -19,7 +19,8 @@ from pydantic import BaseModel, ConfigDict, Field, PlainValidator, WithJsonSchem
 from .units import Basis, Dimension, Quantity, UnitError, parse_quantity
 
 __all__ = [
-    "CapacitorSpec", "CheckSpec", "Checklist", "ChecklistItem", "Conductor", "Instrument",
+    "AccuracyEntry", "CapacitorSpec", "CheckSpec", "Checklist", "ChecklistItem", "Conductor",
+    "Instrument",
     "InstrumentRegister", "JobFile", "LimitOverride", "MachineFile", "Nameplate",
     "ProtectiveDevice", "SignOff", "Source", "StandardInForce", "SupplyCable", "SurveyPoint",
     "VisitFile", "VisitKind", "WindingSpec", "Attachment", "parse_date", "ELEMENT_KINDS",
@@ -140,6 +141,10 @@ class ChecklistItem(_Strict):
         description="further values recorded with the reading, name → unit (e.g. temperature: °C)")
     required: bool = True
     safety_critical: bool = False
+    category: Literal["II", "III", "IV"] | None = Field(
+        None, description="measurement category of the point measured (IEC 61010-1)")
+    needs_true_rms: bool = Field(
+        False, description="an average-responding instrument is flagged on this item")
     applies_when: Literal["always", "capacitors", "windings", "three_phase", "survey_points",
                           "rated_current", "protective_device"] = "always"
     checks: list[CheckSpec] = Field(default_factory=list)
@@ -192,12 +197,27 @@ class JobFile(_Strict):
         default_factory=lambda: parse_quantity("20 °C", Dimension.TEMPERATURE),
         description="temperature winding resistances are corrected to for comparison")
     overrides: list[LimitOverride] = Field(default_factory=list)
+    decision_rule: Literal["simple acceptance", "guarded acceptance"] = Field(
+        "simple acceptance",
+        description="ILAC-G8:09/2019 decision rule: simple (guard band 0) or guarded (w = U)")
+    coverage_factor: float = Field(2.0, gt=0, le=4,
+                                   description="k for the expanded uncertainty U = k·u")
     notes: str | None = None
 
 
 # ---------------------------------------------------------------- instruments
 
 _CATEGORY_RE = re.compile(r"^CAT\s*(?P<cat>I{1,3}|IV)\s+(?P<volts>\d+(?:\.\d+)?)\s*V$")
+
+
+class AccuracyEntry(_Strict):
+    """One function and range of an instrument, as its data sheet states it."""
+
+    measures: str = Field(description="unit of the function, e.g. 'V', 'A', 'Ω', 'µF', '°C'")
+    range: str | None = Field(None, description="full scale of the range, e.g. '600 V'; "
+                              "absent for a single-range function")
+    accuracy: str = Field(description="e.g. '±(0.5 % of reading + 2 digits)', '±1 % of range'")
+    resolution: str | None = Field(None, description="last digit on this range, e.g. '0.1 V'")
 
 
 class Instrument(_Strict):
@@ -212,6 +232,8 @@ class Instrument(_Strict):
         description="measurement category and voltage (IEC 61010-1), e.g. 'CAT III 600 V'")
     calibrated: Date | None = None
     calibration_due: Date | None = None
+    functions: list[AccuracyEntry] = Field(
+        default_factory=list, description="accuracy per function and range")
 
     @property
     def category_rank(self) -> int | None:

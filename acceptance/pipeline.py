@@ -86,13 +86,24 @@ def plan_site(result: JobResult) -> list[SitePage]:
         for m in result.machines for v in m.visits}
     state_counts = [(state, sum(1 for v in result.visits if v.state is state))
                     for state in VisitState]
-    usage: dict[str, list[tuple[str, str]]] = {i["id"]: [] for i in result.instruments}
+    from .computations.uncertainty import calibration_state
+    from .model import parse_date
+
+    register = {i["id"]: i for i in result.instruments}
+    usage: dict[str, list[dict[str, object]]] = {i["id"]: [] for i in result.instruments}
     for machine in result.machines:
         for visit in machine.visits:
             used = sorted({e.instrument for item in visit.items for e in item.elements
                            if e.instrument})
             for instrument in used:
-                usage.setdefault(instrument, []).append((machine.id, visit.id))
+                entry = register.get(instrument, {})
+                state = calibration_state(
+                    parse_date(entry["calibrated"]) if entry.get("calibrated") else None,
+                    parse_date(entry["calibration_due"]) if entry.get("calibration_due")
+                    else None, visit.date)
+                usage.setdefault(instrument, []).append(
+                    {"machine": machine.id, "visit": visit.id, "state": state.phrase,
+                     "valid": "ok" if state.valid else "lapsed"})
     pages = [
         SitePage("index.html", "index.html",
                  {"open_counts": open_counts, "state_counts": state_counts,

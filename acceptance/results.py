@@ -93,6 +93,8 @@ class CheckResult:
     message: str | None = None
     override: str | None = None  # reason, when a job rule replaced the default limit
     compared: str | None = None  # which value was compared, when not the reading itself
+    decision: str | None = None  # the decision rule applied and the guard band used
+    conformance: float | None = None  # JCGM 106 probability of conformity, near a limit
 
 
 @dataclass(frozen=True)
@@ -108,6 +110,8 @@ class ElementResult:
     note: str | None
     checks: tuple[CheckResult, ...]
     line: int | None = None
+    uncertainty: str | None = None  # "U = 1.6 V (k = 2), from …", or why it is unknown
+    findings: tuple[str, ...] = ()  # about the instrument: category, response, calibration
 
 
 @dataclass(frozen=True)
@@ -185,6 +189,8 @@ class JobResult:
     machines: tuple[MachineResult, ...]
     tool_version: str
     instruments: tuple[dict[str, Any], ...] = field(default=())
+    decision_rule: str = "simple acceptance"
+    coverage_factor: float = 2.0
 
     @property
     def visits(self) -> list[VisitResult]:

@@ -24,6 +24,7 @@ from ..results import (
     worst,
 )
 from ..units import Quantity
+from .instruments import ReadingUncertainty, assess, instrument_findings, reading_uncertainty
 from .rules import RULES, Context
 
 __all__ = ["evaluate_job", "visit_state"]
@@ -67,6 +68,15 @@ def _evaluate_element(item: ChecklistItem, checklist: LoadedChecklist, element: 
             return empty(Verdict.NOT_APPLICABLE)
         return empty(Verdict.NOT_TESTED)
     context = Context(job, machine, visit, item, _element_spec(item, machine, element))
+    instrument = job.instruments.get(reading.instrument or "")
+    uncertainty: ReadingUncertainty | str | None = None
+    if isinstance(reading.value, Quantity) and instrument is not None:
+        uncertainty = reading_uncertainty(instrument, reading.value, reading.range,
+                                          job.model.coverage_factor)
+    nameplate = machine.model.nameplate
+    to_earth = (Quantity(nameplate.rated_voltage.value / 3 ** 0.5, nameplate.rated_voltage.dimension)
+                if nameplate.phases == 3 else nameplate.rated_voltage)
+    findings = instrument_findings(instrument, item, to_earth, visit.model.date)
     checks: list[CheckResult] = []
     for spec in item.checks:
         key = f"{checklist.id}.{item.id}"
@@ -75,11 +85,17 @@ def _evaluate_element(item: ChecklistItem, checklist: LoadedChecklist, element: 
         outcome = RULES[spec.rule].evaluate(reading, context, params)
         source = override.source.describe() if override else spec.source.describe()
         if outcome.source_note and not override:
-            source = f"{source}; {outcome.source_note}"
+            source = (outcome.source_note if outcome.source_replaces
+                      else f"{source}; {outcome.source_note}")
+        assessment = assess(outcome, uncertainty if uncertainty is not None else
+                            "no instrument named", job.model.decision_rule, instrument,
+                            visit.model.date, item)
+        message = "; ".join(m for m in (outcome.message, assessment.message) if m) or None
         checks.append(CheckResult(
-            id=spec.id, rule=spec.rule, verdict=outcome.verdict, limit=outcome.limit,
-            source=source, steps=outcome.steps, message=outcome.message,
-            override=override.reason if override else None, compared=outcome.compared))
+            id=spec.id, rule=spec.rule, verdict=assessment.verdict, limit=outcome.limit,
+            source=source, steps=outcome.steps, message=message,
+            override=override.reason if override else None, compared=outcome.compared,
+            decision=assessment.decision, conformance=assessment.conformance))
     verdict = worst([c.verdict for c in checks], empty=Verdict.RECORDED)
     value = reading.value
     if isinstance(value, Quantity):
@@ -88,8 +104,13 @@ def _evaluate_element(item: ChecklistItem, checklist: LoadedChecklist, element: 
     else:
         shown, number, unit, basis = ("yes" if value else "no"), None, "", None
     extras = {name: (q.text or q.format()) for name, q in reading.extras.items()}
+    if reading.range is not None:
+        extras["range"] = reading.range.text or reading.range.format()
     return ElementResult(element, verdict, shown, number, unit, basis, reading.instrument,
-                         extras, reading.note, tuple(checks), reading.line)
+                         extras, reading.note, tuple(checks), reading.line,
+                         uncertainty=(uncertainty.phrase if isinstance(uncertainty,
+                                      ReadingUncertainty) else uncertainty),
+                         findings=tuple(findings))
 
 
 def _evaluate_item(item: ChecklistItem, checklist: LoadedChecklist, job: Job,
@@ -207,7 +228,10 @@ def evaluate_job(job: Job) -> JobResult:
         {"id": i.id, "kind": i.kind, "model": i.model or "", "serial": i.serial or "",
          "response": i.response, "category": i.category or "",
          "calibrated": i.calibrated.isoformat() if i.calibrated else "",
-         "calibration_due": i.calibration_due.isoformat() if i.calibration_due else ""}
+         "calibration_due": i.calibration_due.isoformat() if i.calibration_due else "",
+         "functions": [f"{f.measures}" + (f", range {f.range}" if f.range else "")
+                       + f": {f.accuracy}" + (f", resolution {f.resolution}" if f.resolution
+                                               else "") for f in i.functions]}
         for i in sorted(job.instruments.values(), key=lambda i: i.id))
     overrides = tuple({"item": o.item, "check": o.check, "reason": o.reason,
                        "source": o.source.describe(),
@@ -219,4 +243,5 @@ def evaluate_job(job: Job) -> JobResult:
         standards=tuple(f"{s.document}:{s.edition}" + (f" — {s.title}" if s.title else "")
                         for s in job.model.standards),
         overrides=overrides, machines=machines, tool_version=__version__,
-        instruments=instruments)
+        instruments=instruments, decision_rule=job.model.decision_rule,
+        coverage_factor=job.model.coverage_factor)

@@ -72,6 +72,18 @@ class Outcome:
     message: str | None = None
     compared: str | None = None
     source_note: str | None = None
+    source_replaces: bool = False  # source_note names the criterion's real source
+    # For decision rules that account for the instrument: the tolerance, the value compared
+    # with it, and how much that value moves per unit of the reading (∂compared/∂reading).
+    tolerance: Tolerance | None = None
+    compared_value: float | None = None
+    sensitivity: float = 1.0
+
+
+def _compare(tolerance: Tolerance, value: float, steps: tuple[Step, ...] | list[Step] = (),
+             sensitivity: float = 1.0, **fields: Any) -> Outcome:
+    return Outcome(_judge(tolerance, value), tolerance.describe(), tuple(steps),
+                   tolerance=tolerance, compared_value=value, sensitivity=sensitivity, **fields)
 
 
 @dataclass(frozen=True)
@@ -195,7 +207,7 @@ def _bound(kind: str) -> Callable[[Reading, Context, dict[str, Any]], Outcome]:
         symbol = _symbol(reading, context)
         tolerance = (Tolerance(limit.dimension, symbol, unit, None, limit.value) if kind == "max"
                      else Tolerance(limit.dimension, symbol, unit, limit.value, None))
-        return Outcome(_judge(tolerance, reading.value.value), tolerance.describe())
+        return _compare(tolerance, reading.value.value)
 
     return evaluate
 
@@ -206,7 +218,7 @@ def _window(reading: Reading, context: Context, params: dict[str, Any]) -> Outco
     upper = parse_quantity(params["upper"], reading.value.dimension)
     tolerance = Tolerance(lower.dimension, _symbol(reading, context),
                           lower.unit or _display_unit(reading, context), lower.value, upper.value)
-    return Outcome(_judge(tolerance, reading.value.value), tolerance.describe())
+    return _compare(tolerance, reading.value.value)
 
 
 def _relative_to(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
@@ -230,7 +242,7 @@ def _relative_to(reading: Reading, context: Context, params: dict[str, Any]) -> 
              f"{_pct(100 * (reading.value.value / reference.value - 1))}",
              100 * (reading.value.value / reference.value - 1), "%"),
     )
-    return Outcome(_judge(tolerance, reading.value.value), tolerance.describe(), steps)
+    return _compare(tolerance, reading.value.value, steps)
 
 
 def _article(phrase: str) -> str:
@@ -283,7 +295,7 @@ def _current_against(reading: Reading, context: Context, params: dict[str, Any])
                     f"{label}; measure with a true-RMS instrument or attach a waveform capture")
     steps.append(Step("loading", f"{100 * reading.value.value / limit:.1f} % of the limit",
                       100 * reading.value.value / limit, "%"))
-    return Outcome(_judge(tolerance, reading.value.value), tolerance.describe(), tuple(steps))
+    return _compare(tolerance, reading.value.value, steps)
 
 
 # ------------------------------------------------------------------ windings
@@ -327,10 +339,14 @@ def _winding_resistance(reading: Reading, context: Context, params: dict[str, An
                       f"{tolerance_pct:g} % at {reference_temperature.format()}", nominal, "Ω"))
     steps.append(Step("deviation", _pct(100 * (corrected / nominal - 1)),
                       100 * (corrected / nominal - 1), "%"))
-    note = ("nameplate tolerance" if winding.resistance_tolerance
-            else f"default tolerance ±{tolerance_pct:g} % (no tolerance on the nameplate)")
-    return Outcome(_judge(tolerance, corrected), tolerance.describe(), tuple(steps),
-                   compared=f"R at {reference_temperature.format()}", source_note=note)
+    if winding.resistance_tolerance:
+        note, replaces = "manufacturer's data (nameplate resistance and tolerance)", True
+    else:
+        note = f"default tolerance ±{tolerance_pct:g} % (no tolerance on the nameplate)"
+        replaces = False
+    return _compare(tolerance, corrected, steps, sensitivity=corrected / reading.value.value,
+                    compared=f"R at {reference_temperature.format()}", source_note=note,
+                    source_replaces=replaces)
 
 
 # ------------------------------------------------------------------ capacitors
@@ -350,7 +366,7 @@ def _capacitance(reading: Reading, context: Context, params: dict[str, Any]) -> 
         Step("deviation", _pct(100 * (reading.value.value / nominal.value - 1)),
              100 * (reading.value.value / nominal.value - 1), "%"),
     )
-    return Outcome(_judge(tolerance, reading.value.value), tolerance.describe(), steps)
+    return _compare(tolerance, reading.value.value, steps)
 
 
 # ------------------------------------------------------------------ temperature
@@ -397,7 +413,8 @@ def _rise_by_resistance(reading: Reading, context: Context, params: dict[str, An
              rise, "K", formula="Δθ = (R₂ − R₁)/R₁ · (k + θ₁) + θ₁ − θa"),
         Step("limit", f"{limit_value:g} K — {limit_source}", limit_value, "K"),
     )
-    return Outcome(_judge(tolerance, rise), tolerance.describe(), steps,
+    return _compare(tolerance, rise, steps,
+                    sensitivity=(constant.value + cold.extras["temperature"].value) / cold.value.value,
                    compared="temperature rise Δθ", source_note=limit_source)
 
 
@@ -415,12 +432,11 @@ def _rise_over_ambient(reading: Reading, context: Context, params: dict[str, Any
     if point.rise_limit is not None:
         tolerance = Tolerance(Dimension.TEMPERATURE_DIFFERENCE, "Δθ", "K", None,
                               point.rise_limit.value)
-        return Outcome(_judge(tolerance, rise), tolerance.describe(), tuple(steps),
+        return _compare(tolerance, rise, steps,
                        compared="rise over ambient", source_note="limit for this survey point")
     if point.limit is not None:
         tolerance = Tolerance(Dimension.TEMPERATURE, "θ", "°C", None, point.limit.value)
-        return Outcome(_judge(tolerance, reading.value.value), tolerance.describe(),
-                       tuple(steps), source_note="limit for this survey point")
+        return _compare(tolerance, reading.value.value, steps, source_note="limit for this survey point")
     return Outcome(Verdict.RECORDED, "no limit for this point", tuple(steps))
 
 

@@ -1,0 +1,172 @@
+"""What the instrument that took a reading does to its verdict.
+
+Every reading's expanded uncertainty comes from the instrument register
+(JCGM 100:2008); the job's decision rule (ILAC-G8:09/2019) turns a comparison
+with a tolerance into pass, conditional pass, conditional fail or fail; an
+instrument out of calibration on the visit date cannot give a plain pass; a
+measurement category below the point's is a safety finding; an
+average-responding instrument where true RMS is needed is flagged.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from ..computations import ComputationError
+from ..computations import uncertainty as unc
+from ..model import AccuracyEntry, ChecklistItem, Instrument
+from ..results import Verdict
+from ..units import Dimension, Quantity, format_value, parse_quantity
+from .rules import Outcome
+
+__all__ = ["Assessment", "ReadingUncertainty", "assess", "reading_uncertainty"]
+
+_STATEMENT_VERDICT = {
+    unc.Statement.PASS: Verdict.PASS,
+    unc.Statement.CONDITIONAL_PASS: Verdict.CONDITIONAL_PASS,
+    unc.Statement.CONDITIONAL_FAIL: Verdict.CONDITIONAL_FAIL,
+    unc.Statement.FAIL: Verdict.FAIL,
+}
+
+
+@dataclass(frozen=True)
+class ReadingUncertainty:
+    expanded: float  # U in the reading's base unit
+    standard: float  # u
+    coverage_factor: float
+    phrase: str  # "U = 1.6 V (k = 2), from ±(0.5 % of reading + 2 digits), range 600 V"
+
+
+@dataclass(frozen=True)
+class Assessment:
+    verdict: Verdict
+    decision: str | None
+    conformance: float | None
+    message: str | None
+
+
+def _entry_for(instrument: Instrument, reading: Quantity,
+               chosen_range: Quantity | None) -> tuple[AccuracyEntry, Quantity | None] | None:
+    candidates: list[tuple[AccuracyEntry, Quantity | None]] = []
+    for entry in instrument.functions:
+        try:
+            dimension = parse_quantity(f"1 {entry.measures}", *Dimension).dimension
+        except ValueError:
+            continue
+        if dimension is not reading.dimension:
+            continue
+        full_scale = parse_quantity(entry.range, dimension) if entry.range else None
+        candidates.append((entry, full_scale))
+    if not candidates:
+        return None
+    if chosen_range is not None:
+        for entry, full_scale in candidates:
+            if full_scale is not None and abs(full_scale.value - chosen_range.value) <= (
+                    1e-9 * abs(chosen_range.value)):
+                return entry, full_scale
+        return None
+    # An auto-ranging meter settles on the smallest range that holds the reading.
+    fitting = [(e, fs) for e, fs in candidates if fs is None or fs.value >= abs(reading.value)]
+    if not fitting:
+        return None
+    return min(fitting, key=lambda c: float("inf") if c[1] is None else c[1].value)
+
+
+def reading_uncertainty(instrument: Instrument | None, reading: Quantity,
+                        chosen_range: Quantity | None,
+                        coverage_factor: float) -> ReadingUncertainty | str:
+    """The reading's uncertainty, or a phrase saying why it is not known."""
+    if instrument is None:
+        return "no instrument named"
+    found = _entry_for(instrument, reading, chosen_range)
+    if found is None:
+        if chosen_range is not None:
+            return (f"the register gives no {chosen_range.format()} range for "
+                    f"{instrument.id}")
+        return f"the register gives no accuracy for {instrument.id} on this function"
+    entry, full_scale = found
+    unit = entry.measures
+    specification = unc.parse_accuracy_specification(entry.accuracy)
+    resolution = (parse_quantity(entry.resolution, reading.dimension).in_unit(unit)
+                  if entry.resolution else None)
+    try:
+        budget = unc.instrument_uncertainty(
+            reading.in_unit(unit), specification, resolution=resolution,
+            range_full_scale=full_scale.in_unit(unit) if full_scale else None,
+            coverage_factor=coverage_factor, reading_unit=unit)
+    except ComputationError as error:
+        return f"uncertainty not computed: {error}"
+    factor = parse_quantity(f"1 {unit}", reading.dimension).value
+    expanded = budget.expanded_uncertainty * factor
+    phrase = (f"U = {format_value(expanded, reading.dimension, unit, 2)} (k = "
+              f"{coverage_factor:g}), from {specification.describe()}"
+              + (f", range {full_scale.format()}" if full_scale else ""))
+    return ReadingUncertainty(expanded, budget.combined_standard_uncertainty * factor,
+                              coverage_factor, phrase)
+
+
+def assess(outcome: Outcome, uncertainty: ReadingUncertainty | str, rule_name: str,
+           instrument: Instrument | None, visit_date, item: ChecklistItem,  # noqa: ANN001
+           ) -> Assessment:
+    """Apply the decision rule and the calibration state to one check's outcome."""
+    verdict = outcome.verdict
+    decision = None
+    conformance = None
+    messages: list[str] = []
+    rule = unc.DecisionRule(rule_name)
+    tolerance = outcome.tolerance
+    if (tolerance is not None and outcome.compared_value is not None
+            and verdict in (Verdict.PASS, Verdict.FAIL)):
+        if isinstance(uncertainty, ReadingUncertainty):
+            expanded = uncertainty.expanded * abs(outcome.sensitivity)
+            standard = uncertainty.standard * abs(outcome.sensitivity)
+            result = unc.decide_conformity(
+                outcome.compared_value, lower_limit=tolerance.lower, upper_limit=tolerance.upper,
+                expanded_uncertainty=expanded, rule=rule)
+            verdict = _STATEMENT_VERDICT[result.statement]
+            decision = (f"{rule.value}; U = "
+                        f"{format_value(expanded, tolerance.dimension, tolerance.unit, 2)}"
+                        + (" (propagated to the compared value)"
+                           if abs(outcome.sensitivity - 1.0) > 1e-12 else ""))
+            distance = tolerance.distance_outside(outcome.compared_value)
+            if standard > 0 and abs(distance) <= 2 * expanded:
+                conformance = unc.conformance_probability(
+                    outcome.compared_value, standard, tolerance.lower, tolerance.upper)
+        else:
+            decision = f"{rule.value} could not account for the instrument: {uncertainty}"
+            if rule is unc.DecisionRule.GUARDED and verdict is Verdict.PASS:
+                verdict = Verdict.CONDITIONAL_PASS
+                messages.append("no instrument accuracy: the guard band is unknown")
+    if instrument is not None and verdict in (Verdict.PASS, Verdict.CONDITIONAL_PASS):
+        state = unc.calibration_state(instrument.calibrated, instrument.calibration_due,
+                                      visit_date)
+        if not state.valid:
+            verdict = Verdict.UNDETERMINED
+            messages.append(f"{instrument.id}: {state.phrase} on the visit date "
+                            f"({visit_date.isoformat()}); repeat with a calibrated instrument")
+    return Assessment(verdict, decision, conformance, "; ".join(messages) or None)
+
+
+def instrument_findings(instrument: Instrument | None, item: ChecklistItem,
+                        working_voltage: Quantity | None, visit_date) -> list[str]:  # noqa: ANN001
+    """Safety and suitability findings about the instrument itself (not the reading)."""
+    findings: list[str] = []
+    if instrument is None:
+        return findings
+    if item.category is not None and working_voltage is not None:
+        if instrument.category_rank is None:
+            findings.append(f"safety: {instrument.id} has no measurement category in the "
+                            f"register; the point is CAT {item.category}")
+        else:
+            roman = {1: "I", 2: "II", 3: "III", 4: "IV"}[instrument.category_rank]
+            category = unc.measurement_category_finding(
+                unc.parse_measurement_category(f"CAT {roman}"),
+                instrument.category_voltage or 0.0,
+                unc.parse_measurement_category(f"CAT {item.category}"),
+                working_voltage.value)
+            if not category.adequate:
+                findings.append(f"safety: {category.phrase}")
+    if item.needs_true_rms and instrument.response == "average-responding":
+        findings.append(f"{instrument.id} is average-responding; this item needs a true-RMS "
+                        "reading (distorted currents are under-read)")
+    return findings
