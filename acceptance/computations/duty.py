@@ -151,7 +151,7 @@ def nec_630_11_multiplier(
     -----
     A duty cycle between rows takes the next higher tabulated row (the larger,
     safer multiplier); 20 % or less reads the last row. The non-motor-generator
-    column equals √D rounded to two decimals.
+    column is √D to two decimals, except 0.78 at 60 % (√0.6 = 0.775).
 
     References
     ----------

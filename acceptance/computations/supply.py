@@ -282,7 +282,9 @@ def voltage_unbalance_sequence(v_ab: float, v_bc: float, v_ca: float) -> Sequenc
     voltages = _line_voltages(v_ab, v_bc, v_ca)
     sum_squares = sum(v * v for v in voltages)
     beta = sum(v**4 for v in voltages) / sum_squares**2
-    root = math.sqrt(max(0.0, 3.0 - 6.0 * beta))  # 0 only for a degenerate triangle
+    # 3 − 6β lies in [0, 1]: 1 for a balanced set, 0 for a degenerate triangle; clamp
+    # the float rounding at both ends.
+    root = math.sqrt(min(1.0, max(0.0, 3.0 - 6.0 * beta)))
     unbalance = math.sqrt((1.0 - root) / (1.0 + root))
     positive = math.sqrt(sum_squares / (3.0 * (1.0 + unbalance**2)))
     return SequenceComponents(positive, unbalance * positive, unbalance)

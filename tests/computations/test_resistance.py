@@ -231,7 +231,9 @@ def test_nec_table_8_published_rows(gauge, solid, stranded):
     assert row.resistance_per_length == pytest.approx(stranded / (1000 * FEET), rel=FLOAT_RELATIVE)
 
 
-@pytest.mark.parametrize("gauge", [18, 16, 14, 12, 10, 8, 6, 4, 3, 2, 1, "1/0", "2/0", "3/0", "4/0"])
+@pytest.mark.parametrize(
+    "gauge", [18, 16, 14, 12, 10, 8, 6, 4, 3, 2, 1, "1/0", "2/0", "3/0", "4/0"]
+)
 def test_nec_table_8_rows_agree_with_resistivity(gauge):
     # Independent check of every row, including those from memory [M]: annealed copper
     # (IEC 60028) at 75 °C (k 234.5, IEC 60228) over the ASTM B258 area. Solid wire matches
@@ -289,7 +291,8 @@ def test_iec_60228_rows_agree_with_resistivity(size):
         (lambda: nec_table_8_resistance(12, "braided"),
          "stranding 'braided' must be 'solid' or 'stranded'"),
         (lambda: iec_60228_resistance(3.0), "cross_section_mm2 3 mm² is not a tabulated "
-         "IEC 60228 size; use one of 0.5, 0.75, 1, 1.5, 2.5, 4, 6, 10, 16, 25, 35, 50, 70, 95, 120"),
+         "IEC 60228 size; use one of 0.5, 0.75, 1, 1.5, 2.5, 4, 6, 10, 16, 25, 35, 50, 70, "
+         "95, 120"),
         (lambda: iec_60228_resistance(2.5, 6), "conductor_class 6 must be 1, 2 or 5"),
         (lambda: iec_60228_resistance(-2.5), "cross_section_mm2 -2.5 mm² must be greater than "
          "0 mm²"),
