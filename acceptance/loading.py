@@ -496,8 +496,8 @@ def load_job(root: Path) -> Job:
 
 def _check_accuracy(instrument: Instrument, index: int, document: Document,
                     problems: list[Problem]) -> None:
-    from .computations.uncertainty import ACCURACY_FORMS, parse_accuracy_specification
     from .computations import ComputationError
+    from .computations.uncertainty import ACCURACY_FORMS, parse_accuracy_specification
 
     for number, entry in enumerate(instrument.functions):
         path: KeyPath = ("instruments", index, "functions", number)

@@ -12,8 +12,8 @@ from .. import __version__
 from ..loading import Job, LoadedChecklist, LoadedMachine, LoadedVisit, Reading, element_names
 from ..model import ChecklistItem, LimitOverride
 from ..results import (
-    CheckResult,
     ChecklistResult,
+    CheckResult,
     ElementResult,
     ItemResult,
     JobResult,
@@ -74,8 +74,10 @@ def _evaluate_element(item: ChecklistItem, checklist: LoadedChecklist, element: 
         uncertainty = reading_uncertainty(instrument, reading.value, reading.range,
                                           job.model.coverage_factor)
     nameplate = machine.model.nameplate
-    to_earth = (Quantity(nameplate.rated_voltage.value / 3 ** 0.5, nameplate.rated_voltage.dimension)
-                if nameplate.phases == 3 else nameplate.rated_voltage)
+    # Measurement categories are rated to earth (IEC 61010-1): line voltage / √3 on three phases.
+    rated = nameplate.rated_voltage
+    to_earth = (Quantity(rated.value / 3 ** 0.5, rated.dimension) if nameplate.phases == 3
+                else rated)
     findings = instrument_findings(instrument, item, to_earth, visit.model.date)
     checks: list[CheckResult] = []
     for spec in item.checks:

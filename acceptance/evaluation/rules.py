@@ -413,9 +413,10 @@ def _rise_by_resistance(reading: Reading, context: Context, params: dict[str, An
              rise, "K", formula="Δθ = (R₂ − R₁)/R₁ · (k + θ₁) + θ₁ − θa"),
         Step("limit", f"{limit_value:g} K — {limit_source}", limit_value, "K"),
     )
-    return _compare(tolerance, rise, steps,
-                    sensitivity=(constant.value + cold.extras["temperature"].value) / cold.value.value,
-                   compared="temperature rise Δθ", source_note=limit_source)
+    # ∂Δθ/∂R₂ = (k + θ₁)/R₁: how a hot-resistance uncertainty moves the rise.
+    sensitivity = (constant.value + cold.extras["temperature"].value) / cold.value.value
+    return _compare(tolerance, rise, steps, sensitivity=sensitivity,
+                    compared="temperature rise Δθ", source_note=limit_source)
 
 
 def _rise_over_ambient(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
@@ -436,7 +437,8 @@ def _rise_over_ambient(reading: Reading, context: Context, params: dict[str, Any
                        compared="rise over ambient", source_note="limit for this survey point")
     if point.limit is not None:
         tolerance = Tolerance(Dimension.TEMPERATURE, "θ", "°C", None, point.limit.value)
-        return _compare(tolerance, reading.value.value, steps, source_note="limit for this survey point")
+        return _compare(tolerance, reading.value.value, steps,
+                        source_note="limit for this survey point")
     return Outcome(Verdict.RECORDED, "no limit for this point", tuple(steps))
 
 
