@@ -20,7 +20,8 @@ Sources
 -------
 - ANSI/NETA MTS and ATS, thermographic survey suggested actions based on
   temperature rise (table number M): ranges and actions [S].
-- NFPA 70 (NEC), 110.14(C)(1) and (2): temperature limitations of terminations [S].
+- NFPA 70 (NEC), 110.14(C)(1)(a) and (b): temperature limitations of equipment
+  terminations [S; sub-item numbering M].
 """
 
 from __future__ import annotations
