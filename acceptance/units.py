@@ -11,6 +11,7 @@ the reading's *basis*, never silently dropped.
 
 from __future__ import annotations
 
+import decimal
 import math
 import re
 from dataclasses import dataclass
@@ -106,12 +107,16 @@ _add(Dimension.CURRENT, "A", 1.0)
 _add(Dimension.CURRENT, "kA", 1e3)
 _add(Dimension.CURRENT, "mA", 1e-3)
 _add(Dimension.CURRENT, "µA", 1e-6, "μA", "uA")
-_add(Dimension.RESISTANCE, "Ω", 1.0, "ohm", "ohms", "Ohm", "Ohms", "Ω")  # U+2126 ohm sign too
-_add(Dimension.RESISTANCE, "mΩ", 1e-3, "mohm", "milliohm", "mΩ")
+# The ohm sign U+2126 is a separate code point from Greek capital omega U+03A9; editors
+# and keyboards produce both, so both are accepted (written as escapes to survive
+# normalisation of this file).
+_add(Dimension.RESISTANCE, "Ω", 1.0, "ohm", "ohms", "Ohm", "Ohms", "\u2126")
+_add(Dimension.RESISTANCE, "mΩ", 1e-3, "mohm", "milliohm", "m\u2126")
 _add(Dimension.RESISTANCE, "µΩ", 1e-6, "μΩ", "uohm", "µohm", "μohm")
-_add(Dimension.RESISTANCE, "kΩ", 1e3, "kohm", "kohms", "kOhm", "kΩ")
-_add(Dimension.RESISTANCE, "MΩ", 1e6, "Mohm", "Mohms", "MOhm", "megohm", "megohms", "MΩ")
-_add(Dimension.RESISTANCE, "GΩ", 1e9, "Gohm", "GOhm", "gigohm", "GΩ")
+_add(Dimension.RESISTANCE, "kΩ", 1e3, "kohm", "kohms", "kOhm", "k\u2126")
+_add(Dimension.RESISTANCE, "MΩ", 1e6, "Mohm", "Mohms", "MOhm", "megohm", "megohms",
+     "M\u2126")
+_add(Dimension.RESISTANCE, "GΩ", 1e9, "Gohm", "GOhm", "gigohm", "G\u2126")
 _add(Dimension.CAPACITANCE, "F", 1.0)
 _add(Dimension.CAPACITANCE, "mF", 1e-3)
 _add(Dimension.CAPACITANCE, "µF", 1e-6, "μF", "uF")
@@ -167,6 +172,7 @@ _QUALIFIERS: dict[str, Basis] = {
 _NUMBER = r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?"
 _QUANTITY_RE = re.compile(rf"^\s*(?P<number>{_NUMBER})\s*(?P<rest>.*?)\s*$")
 _DECIMAL_COMMA_RE = re.compile(r"^\s*[+-]?\d+,\d")
+_NOT_FINITE_RE = re.compile(r"^\s*[+-]?(?:nan|inf(?:inity)?)\b", re.I)
 _AWG_RE = re.compile(r"^\s*(?:(?P<a>\d{1,2}|[1-4]/0)\s*AWG|AWG\s*(?P<b>\d{1,2}|[1-4]/0))\s*$", re.I)
 
 
@@ -224,7 +230,8 @@ def format_number(value: float, digits: int = 4) -> str:
     return text
 
 
-def format_value(value: float, dimension: Dimension, unit: str | None = None, digits: int = 4) -> str:
+def format_value(value: float, dimension: Dimension, unit: str | None = None,
+                 digits: int = 4) -> str:
     """Format a base-unit ``value`` in ``unit`` (default: the base unit of ``dimension``)."""
     return Quantity(value, dimension, unit if unit is not None else _SI_UNIT[dimension]).format(
         None, digits
@@ -287,7 +294,7 @@ def parse_quantity(text: object, *expected: Dimension) -> Quantity:
         )
     match = _QUANTITY_RE.match(raw)
     if not match:
-        if raw.strip().lower() in {"nan", "inf", "-inf", "+inf", "infinity"}:
+        if _NOT_FINITE_RE.match(raw):
             raise UnitError(f"'{raw.strip()}' is not a finite number")
         raise UnitError(
             f"'{raw.strip()}' is not a {_dimension_names(expected)}; "
@@ -333,10 +340,21 @@ def parse_quantity(text: object, *expected: Dimension) -> Quantity:
         )
     if dimension is Dimension.TEMPERATURE and value < -273.15:
         raise UnitError(f"'{raw.strip()}' is below absolute zero (-273.15 °C)")
-    quantity_value = value * factor
+    quantity_value = _scaled(match.group("number"), factor)
     if abs(quantity_value) > 1e15:
         raise UnitError(f"'{raw.strip()}' is implausibly large for a {dimension.value}")
     return Quantity(quantity_value, dimension, symbol, basis, raw.strip())
+
+
+def _scaled(number: str, factor: float) -> float:
+    """``number × factor`` rounded once: '16.2 µF' is the double nearest 16.2e-6 F.
+
+    Multiplying two doubles rounds twice and can land one unit in the last place off,
+    enough to put a reading written exactly on a tolerance boundary outside it.
+    """
+    with decimal.localcontext() as context:
+        context.prec = 40
+        return float(decimal.Decimal(number) * decimal.Decimal(repr(factor)))
 
 
 def _split_qualifier(rest: str) -> tuple[str, Basis | None]:
