@@ -17,8 +17,8 @@ Every problem names the file and its 1-based line number. Library code only rais
 
 from __future__ import annotations
 
+import codecs
 import difflib
-import io
 import math
 import re
 import warnings
@@ -186,8 +186,9 @@ class CaptureData:
         1-based line number of the header row.
     header : tuple of str
         Every column name, in file order.
-    line_numbers : numpy.ndarray
-        1-based line number of each sample's row.
+    line_numbers : numpy.ndarray or None
+        1-based line number of each sample's row; None when the rows follow the header
+        without a gap, line ``header_line + 1 + index``.
     time : numpy.ndarray
         Sample times [s].
     recorded : dict of str to numpy.ndarray
@@ -195,14 +196,15 @@ class CaptureData:
     sample_interval : float
         Mean interval between samples [s].
     jitter : float
-        Largest departure of a sample time from the uniform grid, over the interval [unitless].
+        Largest departure of one sampling interval from the mean interval, over the mean
+        interval; includes the rounding of the printed times [unitless].
     """
 
     source: str
     time_column: str
     header_line: int
     header: tuple[str, ...]
-    line_numbers: NDArray[np.int64] = field(repr=False, compare=False)
+    line_numbers: NDArray[np.int64] | None = field(repr=False, compare=False)
     time: NDArray[np.float64] = field(repr=False, compare=False)
     recorded: dict[str, NDArray[np.float64]] = field(repr=False, compare=False)
     sample_interval: float = 0.0
@@ -213,6 +215,8 @@ class CaptureData:
         return int(self.time.size)
 
     def line_of(self, index: int) -> int:
+        if self.line_numbers is None:
+            return self.header_line + 1 + index
         return int(self.line_numbers[index])
 
 
@@ -345,32 +349,48 @@ def _check_values(columns: dict[str, NDArray[np.float64]], line_numbers: NDArray
         raise InputError(problems)
 
 
-def _check_time(time: NDArray[np.float64], line_numbers: NDArray[np.int64], source: str,
-                name: str, column: int) -> tuple[float, float]:
+def _check_time(time: NDArray[np.float64], line_numbers: NDArray[np.int64] | None,
+                first_data_line: int, source: str, name: str,
+                column: int) -> tuple[float, float]:
+    def line(index: int) -> int:
+        return first_data_line + index if line_numbers is None else int(line_numbers[index])
+
     if time.size < 8:
         raise InputError.single(
             source, f"the capture has {time.size} data rows; at least 8 are needed",
-            line=int(line_numbers[-1]) if time.size else 1)
+            line=line(time.size - 1) if time.size else 1)
     steps = np.diff(time)
-    backwards = np.flatnonzero(steps <= 0.0)
-    if backwards.size:
-        index = int(backwards[0]) + 1
+    shortest, longest = float(steps.min()), float(steps.max())
+    if shortest <= 0.0:
+        index = int(np.argmax(steps <= 0.0)) + 1
         raise InputError.single(
             source, f"time {time[index]:.9g} s is not after {time[index - 1]:.9g} s on line "
-                    f"{line_numbers[index - 1]}; the time column must increase",
-            line=int(line_numbers[index]), column=column, key_path=name)
+                    f"{line(index - 1)}; the time column must increase",
+            line=line(index), column=column, key_path=name)
     interval = float(time[-1] - time[0]) / (time.size - 1)
-    irregular = np.flatnonzero(np.abs(steps - interval) > _INTERVAL_TOLERANCE * interval)
-    if irregular.size:
-        index = int(irregular[0]) + 1
+    jitter = max(longest - interval, interval - shortest) / interval
+    if jitter > _INTERVAL_TOLERANCE:
+        index = int(np.argmax(np.abs(steps - interval) > _INTERVAL_TOLERANCE * interval)) + 1
         raise InputError.single(
             source, f"sampling is not uniform: the step to {time[index]:.9g} s is "
                     f"{steps[index - 1]:.6g} s against a mean interval of {interval:.6g} s "
                     "(samples missing or the time base changed)",
-            line=int(line_numbers[index]), column=column, key_path=name)
-    grid = time[0] + interval * np.arange(time.size)
-    jitter = float(np.max(np.abs(time - grid))) / interval
+            line=line(index), column=column, key_path=name)
     return interval, jitter
+
+
+def _line_end(raw: bytes, position: int) -> int:
+    """Index of the end of the line starting at ``position`` (before CR LF, LF or CR)."""
+    newline = raw.find(b"\n", position)
+    end = len(raw) if newline < 0 else newline
+    carriage = raw.find(b"\r", position, end)
+    return end if carriage < 0 else carriage
+
+
+def _next_line(raw: bytes, end: int) -> int:
+    if raw[end:end + 2] == b"\r\n":
+        return end + 2
+    return min(len(raw), end + 1)
 
 
 def read_capture(path: str | Path, channels: Sequence[str] | None = None,
@@ -403,29 +423,26 @@ def read_capture(path: str | Path, channels: Sequence[str] | None = None,
         raw = Path(path).read_bytes()
     except OSError as error:
         raise InputError.single(source, f"cannot read the capture: {error.strerror}") from None
-    try:
-        text = raw.decode("utf-8-sig")
-    except UnicodeDecodeError as error:
-        line = raw[:error.start].count(b"\n") + 1
-        raise InputError.single(source, "the capture is not UTF-8 text", line=line) from None
-    if "\r" in text:
-        text = text.replace("\r\n", "\n").replace("\r", "\n")
-
-    position = 0
+    # Only the header is decoded here; the body goes to numpy's C parser untouched, and is
+    # decoded in Python only when that parser refuses it and a precise message is needed.
+    position = len(codecs.BOM_UTF8) if raw.startswith(codecs.BOM_UTF8) else 0
     line_number = 1
     while True:
-        end = text.find("\n", position)
-        stop = len(text) if end < 0 else end
-        header = text[position:stop]
+        end = _line_end(raw, position)
+        try:
+            header = raw[position:end].decode("utf-8")
+        except UnicodeDecodeError:
+            raise InputError.single(source, "the capture is not UTF-8 text",
+                                    line=line_number) from None
         if header.strip() and not header.lstrip().startswith("#"):
             break
-        if end < 0:
+        if end >= len(raw):
             raise InputError.single(source, "the capture has no header row", line=line_number)
-        position = end + 1
+        position = _next_line(raw, end)
         line_number += 1
     header_line = line_number
-    delimiter, names = _split_header(header.rstrip("\r"), source, header_line)
-    body = text[stop + 1:] if end >= 0 else ""
+    delimiter, names = _split_header(header, source, header_line)
+    body_start = _next_line(raw, end)
     first_data_line = header_line + 1
 
     time_index = _time_column(names, time_column, source, header_line)
@@ -445,38 +462,49 @@ def read_capture(path: str | Path, channels: Sequence[str] | None = None,
                                 line=header_line)
     wanted = [time_index] + [names.index(n) for n in wanted_names]
 
-    first_row_end = body.find("\n")
-    first_row = body if first_row_end < 0 else body[:first_row_end]
+    first_row = raw[body_start:_line_end(raw, body_start)].decode("utf-8", errors="replace")
     _check_decimal_comma(first_row, delimiter, source, first_data_line)
 
-    trimmed = body.rstrip()
-    expected_rows = trimmed.count("\n") + 1 if trimmed else 0
+    content_end = len(raw)
+    while content_end > body_start and raw[content_end - 1] in b" \t\r\n":
+        content_end -= 1
+    expected_rows = raw.count(b"\n", body_start, content_end) + 1 if content_end > body_start else 0
     data: NDArray[np.float64] | None = None
-    if expected_rows and "\n\n" not in trimmed and "\n\r\n" not in trimmed:
+    # Blank lines are skipped by numpy and not counted towards max_rows, so a file holding
+    # any reads short here and goes to the line-by-line parse, which keeps true line numbers.
+    if expected_rows:
         try:
             with warnings.catch_warnings():
                 warnings.simplefilter("ignore")
-                data = np.loadtxt(io.StringIO(trimmed), delimiter=delimiter, usecols=wanted,
-                                  ndmin=2, dtype=np.float64, comments=None)
+                data = np.loadtxt(path, delimiter=delimiter, usecols=wanted, ndmin=2,
+                                  dtype=np.float64, comments=None, skiprows=header_line,
+                                  max_rows=expected_rows, encoding="utf-8-sig")
         except ValueError:
             data = None
         if data is not None and data.shape[0] != expected_rows:
             data = None
-    if data is not None:
-        line_numbers = np.arange(first_data_line, first_data_line + data.shape[0],
-                                 dtype=np.int64)
-    else:
+    line_numbers: NDArray[np.int64] | None = None
+    if data is None:
+        body = raw[body_start:].decode("utf-8", errors="replace")
+        body = body.replace("\r\n", "\n").replace("\r", "\n")
         data, line_numbers = _slow_parse(body.split("\n"), first_data_line, delimiter,
                                          names, wanted, source)
     if data.shape[0] == 0:
         raise InputError.single(source, "the capture has a header row but no data rows",
                                 line=header_line)
 
+    if line_numbers is None and data.shape[0] >= 1 and not np.isfinite(data).all():
+        line_numbers = np.arange(first_data_line, first_data_line + data.shape[0])
     columns = {names[index]: data[:, k] for k, index in enumerate(wanted)}
     positions = {names[index]: index for index in wanted}
-    _check_values(columns, line_numbers, source, positions)
-    time = columns.pop(time_name) * _time_scale(time_name)
-    interval, jitter = _check_time(time, line_numbers, source, time_name, time_index + 1)
+    if line_numbers is not None:
+        _check_values(columns, line_numbers, source, positions)
+    time_scale = _time_scale(time_name)
+    time = columns.pop(time_name)
+    if time_scale != 1.0:
+        time = time * time_scale
+    interval, jitter = _check_time(time, line_numbers, first_data_line, source, time_name,
+                                   time_index + 1)
     return CaptureData(
         source=source,
         time_column=time_name,
@@ -484,7 +512,7 @@ def read_capture(path: str | Path, channels: Sequence[str] | None = None,
         header=tuple(names),
         line_numbers=line_numbers,
         time=time,
-        recorded={name: np.ascontiguousarray(columns[name]) for name in wanted_names},
+        recorded={name: columns[name] for name in wanted_names},
         sample_interval=interval,
         jitter=jitter,
     )
@@ -538,7 +566,7 @@ class CaptureAnalysis:
     duration : float
         rows · sample_interval [s].
     jitter : float
-        Largest timing departure from the uniform grid over the interval [unitless].
+        Largest departure of one sampling interval from the mean, over the mean [unitless].
     frequency : float
         Fundamental frequency, from the voltage channel when one is named [Hz].
     frequency_channel : str
@@ -587,13 +615,19 @@ def _clipping(recorded: NDArray[np.float64], samples_per_cycle: float,
     span = high - low
     if span <= 0.0:
         return None
+    shortest_clip = max(3.0, _CLIP_RUN_SHARE * samples_per_cycle)
+    needed = max(1, cycles // 2)
     for side, limit in (("largest", high), ("smallest", low)):
-        at_limit = np.abs(recorded - limit) <= 1e-9 * span
+        tolerance = 1e-9 * span
+        at_limit = (recorded >= limit - tolerance) if side == "largest" else (
+            recorded <= limit + tolerance)
+        if int(np.count_nonzero(at_limit)) < needed * shortest_clip:
+            continue
         edges = np.diff(np.concatenate(([0], at_limit.view(np.int8), [0])))
         starts = np.flatnonzero(edges == 1)
         lengths = np.flatnonzero(edges == -1) - starts
-        long_runs = lengths >= max(3.0, _CLIP_RUN_SHARE * samples_per_cycle)
-        if int(np.count_nonzero(long_runs)) >= max(1, cycles // 2):
+        long_runs = lengths >= shortest_clip
+        if int(np.count_nonzero(long_runs)) >= needed:
             share = float(np.median(lengths[long_runs])) / samples_per_cycle
             return side, limit, int(starts[np.argmax(long_runs)]), share
     return None

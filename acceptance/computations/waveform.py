@@ -246,6 +246,10 @@ def _checked_samples(samples: ArrayLike, name: str) -> NDArray[np.float64]:
         raise ComputationError(f"{name} must be one-dimensional; got shape {array.shape}")
     if array.size < 8:
         raise ComputationError(f"{name} holds {array.size} samples; at least 8 are needed")
+    # A finite sum proves every sample finite (NaN and ±inf propagate); only a non-finite sum,
+    # or an overflow of huge values, needs the sample-by-sample look.
+    if math.isfinite(float(np.add.reduce(array))):
+        return array
     bad = np.flatnonzero(~np.isfinite(array))
     if bad.size:
         raise ComputationError(
@@ -283,9 +287,11 @@ def _whole_cycles(count: int, sample_interval: float, frequency: float) -> int:
 # --------------------------------------------------------------------------- window sums
 
 _DETECTION_POINTS = 1 << 16
-# Harmonic analysis keeps at least this many samples per cycle; the block-mean response at
-# the 40th harmonic is then ≥ 0.998 and is divided out, and aliases fall near its nulls.
-_HARMONIC_SAMPLES_PER_CYCLE = 4096
+# Harmonic and phasor analysis keep at least this many samples per cycle: the block-mean
+# response at the 40th harmonic is then ≥ 0.99 and is divided out exactly, and a component
+# near the reduced sampling rate aliases onto a harmonic at no more than ~2 % of its size,
+# since it falls by a null of that response.
+_HARMONIC_SAMPLES_PER_CYCLE = 2048
 
 
 def _block_means(values: NDArray[np.float64], limit: int) -> tuple[NDArray[np.float64], int]:
@@ -326,6 +332,16 @@ def _window_mean(values: NDArray[np.float64], window_samples: float) -> float:
     return total / window_samples
 
 
+def _window_dot(first: NDArray[np.float64], second: NDArray[np.float64],
+                window_samples: float) -> float:
+    """Window mean of first·second without forming the product array."""
+    whole, fraction = _window_weights(window_samples)
+    total = float(np.dot(first[:whole], second[:whole]))
+    if fraction and whole < first.size:
+        total += fraction * float(first[whole]) * float(second[whole])
+    return total / window_samples
+
+
 def _window_slice(values: NDArray[np.float64], start: int,
                   window_samples: float) -> NDArray[np.float64]:
     """Samples of one window with the last one pre-multiplied by its fractional weight."""
@@ -338,13 +354,19 @@ def _window_slice(values: NDArray[np.float64], start: int,
     return segment
 
 
+def _phasors(arrays: tuple[NDArray[np.float64], ...], sample_interval: float,
+             frequency: float, window_samples: float) -> list[complex]:
+    """Complex rms phasors of ``frequency`` over the window (rectangular, fractional end)."""
+    segments = [_window_slice(values, 0, window_samples) for values in arrays]
+    phase = np.arange(segments[0].size) * (-2.0 * math.pi * frequency * sample_interval)
+    cosine, sine = np.cos(phase), np.sin(phase)
+    return [math.sqrt(2.0) * complex(np.dot(s, cosine), np.dot(s, sine)) / window_samples
+            for s in segments]
+
+
 def _phasor(values: NDArray[np.float64], sample_interval: float, frequency: float,
             window_samples: float) -> complex:
-    """Complex rms phasor of ``frequency`` over the window (rectangular, fractional end)."""
-    segment = _window_slice(values, 0, window_samples)
-    phase = np.arange(segment.size) * (-2.0 * math.pi * frequency * sample_interval)
-    total = complex(np.dot(segment, np.cos(phase)) + 1j * np.dot(segment, np.sin(phase)))
-    return math.sqrt(2.0) * total / window_samples
+    return _phasors((values,), sample_interval, frequency, window_samples)[0]
 
 
 def _chirp_z(segment: NDArray[np.float64], window_samples: float,
@@ -482,7 +504,7 @@ def fundamental_frequency(samples: ArrayLike, sample_interval: float) -> Fundame
     reduced_cycles = max(1, int(math.floor(reduced.size * reduced_interval * frequency + 1e-9)))
     window_samples = reduced_cycles / (frequency * reduced_interval)
     windowed_ac = reduced - _window_mean(reduced, window_samples)
-    ac_rms = math.sqrt(_window_mean(windowed_ac * windowed_ac, window_samples))
+    ac_rms = math.sqrt(_window_dot(windowed_ac, windowed_ac, window_samples))
     share = abs(_phasor(windowed_ac, reduced_interval, frequency, window_samples)) / ac_rms
     if share < _MINIMUM_FUNDAMENTAL_SHARE:
         raise ComputationError(
@@ -546,10 +568,11 @@ def waveform_metrics(samples: ArrayLike, sample_interval: float,
     window_samples = cycles / (frequency * interval)
     whole, fraction = _window_weights(window_samples)
     dc = _window_mean(values, window_samples)
-    rms = math.sqrt(_window_mean(values * values, window_samples))
+    rms = math.sqrt(_window_dot(values, values, window_samples))
     magnitude = np.abs(values)
     rectified_mean = _window_mean(magnitude, window_samples)
-    ac_rectified_mean = _window_mean(np.abs(values - dc), window_samples)
+    shifted = np.subtract(values, dc)
+    ac_rectified_mean = _window_mean(np.abs(shifted, out=shifted), window_samples)
     last = min(values.size, whole + (1 if fraction else 0))
     peak = float(np.max(magnitude[:last]))
     ac_rms = math.sqrt(max(rms * rms - dc * dc, 0.0))
@@ -792,15 +815,22 @@ def power_quantities(voltage_samples: ArrayLike, current_samples: ArrayLike,
     frequency = _resolve_frequency(voltage, interval, fundamental_frequency)
     cycles = _whole_cycles(voltage.size, interval, frequency)
     window_samples = cycles / (frequency * interval)
-    voltage_rms = math.sqrt(_window_mean(voltage * voltage, window_samples))
-    current_rms = math.sqrt(_window_mean(current * current, window_samples))
+    voltage_rms = math.sqrt(_window_dot(voltage, voltage, window_samples))
+    current_rms = math.sqrt(_window_dot(current, current, window_samples))
     if voltage_rms == 0.0 or current_rms == 0.0:
         raise ComputationError(
             "voltage_samples or current_samples are all zero; power factor is undefined")
-    real_power = _window_mean(voltage * current, window_samples)
+    real_power = _window_dot(voltage, current, window_samples)
     apparent_power = voltage_rms * current_rms
-    voltage_phasor = _phasor(voltage, interval, frequency, window_samples)
-    current_phasor = _phasor(current, interval, frequency, window_samples)
+    # Block means shift both fundamentals alike, so φ1 is unchanged; |H(f1)| is divided out.
+    factor = max(1, int(1.0 / (frequency * interval)) // _HARMONIC_SAMPLES_PER_CYCLE)
+    reduced_voltage, factor = _block_means(voltage, voltage.size // factor)
+    reduced_current, _ = _block_means(current, current.size // factor)
+    reduced_window = min(window_samples / factor, float(reduced_voltage.size))
+    gain = float(_block_mean_response(np.array([frequency]), factor, interval)[0])
+    voltage_phasor, current_phasor = (
+        phasor / gain for phasor in _phasors((reduced_voltage, reduced_current),
+                                             interval * factor, frequency, reduced_window))
     product = voltage_phasor * current_phasor.conjugate()
     angle = math.degrees(math.atan2(product.imag, product.real))
     voltage_fundamental = abs(voltage_phasor)
