@@ -34,15 +34,17 @@ def env() -> jinja2.Environment:
                               undefined=jinja2.StrictUndefined)
 
 
-@pytest.mark.parametrize(("low", "high", "expected"), [
-    (0.0, 7.3, (0.0, 2.0, 4.0, 6.0, 8.0)),
-    (-327.0, 327.0, (-400.0, -200.0, 0.0, 200.0, 400.0)),
-    (0.0, 60.0, (0.0, 10.0, 20.0, 30.0, 40.0, 50.0, 60.0)),
-    (0.0, 0.0042, (0.0, 0.001, 0.002, 0.003, 0.004, 0.005)),
+@pytest.mark.parametrize(("low", "high", "target", "expected"), [
+    (0.0, 7.3, 5, (0.0, 2.0, 4.0, 6.0, 8.0)),
+    (-327.0, 327.0, 5, (-400.0, -200.0, 0.0, 200.0, 400.0)),
+    (0.0, 60.0, 6, (0.0, 10.0, 20.0, 30.0, 40.0, 50.0, 60.0)),
+    (0.0, 0.0042, 5, (0.0, 0.001, 0.002, 0.003, 0.004, 0.005)),
+    # A finer 1-2-5 step bounds ±53 A at ±60 rather than leaving half the panel empty.
+    (-53.2, 53.2, 4, (-60.0, -40.0, -20.0, 0.0, 20.0, 40.0, 60.0)),
 ])
-def test_ticks_are_whole_1_2_5_steps(low: float, high: float,
+def test_ticks_are_whole_1_2_5_steps(low: float, high: float, target: int,
                                      expected: tuple[float, ...]) -> None:
-    first, last, values = nice_ticks(low, high, 5 if high != 60.0 else 6)
+    first, last, values = nice_ticks(low, high, target)
     assert values == pytest.approx(expected, abs=1e-12)
     assert (first, last) == (values[0], values[-1])
 
@@ -138,4 +140,4 @@ def test_spectrum_bars_are_percent_of_fundamental(env: jinja2.Environment) -> No
 def test_spectrum_without_the_fundamental_rescales_to_the_harmonics() -> None:
     plot = spectrum_plot([1, 2, 3], [100.0, 0.0, 33.0], include_fundamental=False)
     assert [bar.order for bar in plot.bars] == [2, 3]
-    assert plot.y_ticks[-1].label == "40"
+    assert plot.y_ticks[-1].label == "35"

@@ -57,8 +57,9 @@ def register(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("--channel", action="append", default=[], type=_channel_option,
                         metavar="NAME=SCALING",
                         help="channel and probe scaling: x100, 500:1, '10 mV/A', "
-                             "'1 mV per 100 mA', V or A (repeatable; default: every "
-                             "column, as recorded in V)")
+                             "'1 mV per 100 mA', V or A (repeatable; when no channel, "
+                             "voltage or current is named, every column is analysed as "
+                             "recorded, in V)")
     parser.add_argument("--time-column", metavar="NAME",
                         help="name of the time column (default: the column named like "
                              "'time', else the first)")

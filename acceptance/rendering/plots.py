@@ -177,9 +177,15 @@ def nice_ticks(low: float, high: float,
     if high == low:
         pad = abs(low) * 0.1 or 1.0
         low, high = low - pad, high + pad
-    step = nice_step(high - low, target_count)
-    first = math.floor(low / step + 1e-9)
-    last = math.ceil(high / step - 1e-9)
+    # A slightly finer step often bounds the data much more tightly (±53 → ±60, not ±100).
+    best: tuple[float, int, int] | None = None
+    for count in (target_count, target_count + 1, target_count + 2):
+        candidate = nice_step(high - low, count)
+        start = math.floor(low / candidate + 1e-9)
+        stop = math.ceil(high / candidate - 1e-9)
+        if best is None or (stop - start) * candidate < (best[2] - best[1]) * best[0] - 1e-12:
+            best = (candidate, start, stop)
+    step, first, last = best
     values = tuple(round(k * step, 12) + 0.0 for k in range(first, last + 1))
     return values[0], values[-1], values
 
