@@ -32,17 +32,23 @@ DEFAULT_JOB: dict[str, Any] = {
     "contractor": {"name": "Test contractor"},
 }
 
+# In calibration on the default visit date, with no accuracy stated: under simple acceptance
+# (ILAC-G8:09/2019, guard band 0) the verdict is the plain comparison with the limit.
+_CALIBRATED = {"calibrated": "2026-01-05", "calibration_due": "2027-01-05"}
+
 DEFAULT_INSTRUMENTS: dict[str, Any] = {
     "instruments": [
         {"id": "dmm-1", "kind": "multimeter", "response": "true-rms",
-         "category": "CAT III 600 V"},
+         "category": "CAT III 600 V", **_CALIBRATED},
         {"id": "clamp-avg", "kind": "clamp meter", "response": "average-responding",
-         "category": "CAT III 600 V"},
+         "category": "CAT III 600 V", **_CALIBRATED},
         {"id": "clamp-trms", "kind": "clamp meter", "response": "true-rms",
-         "category": "CAT III 600 V"},
-        {"id": "ohm-1", "kind": "low-resistance ohmmeter", "response": "not applicable"},
-        {"id": "lcr-1", "kind": "LCR meter", "response": "not applicable"},
-        {"id": "thermo-1", "kind": "contact thermometer", "response": "not applicable"},
+         "category": "CAT III 600 V", **_CALIBRATED},
+        {"id": "ohm-1", "kind": "low-resistance ohmmeter", "response": "not applicable",
+         **_CALIBRATED},
+        {"id": "lcr-1", "kind": "LCR meter", "response": "not applicable", **_CALIBRATED},
+        {"id": "thermo-1", "kind": "contact thermometer", "response": "not applicable",
+         **_CALIBRATED},
     ]
 }
 
