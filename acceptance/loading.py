@@ -8,6 +8,7 @@ reported together, each as ``file:line:column: key.path: message``.
 
 from __future__ import annotations
 
+import dataclasses
 import difflib
 import types
 import typing
@@ -64,6 +65,7 @@ class Reading:
     file: str
     line: int
     range: Quantity | None = None  # the instrument range, when the reading names one
+    capture: Any = None  # a CaptureAnalysis when a scope capture is attached
 
 
 @dataclass
@@ -118,7 +120,8 @@ def unit_dimension(unit: str) -> Dimension:
     return quantity.dimension
 
 
-def element_names(kind: str, nameplate: Nameplate, survey_ids: list[str]) -> list[str | None]:
+def element_names(kind: str, nameplate: Nameplate, survey_ids: list[str],
+                  bonding_ids: list[str] | None = None) -> list[str | None]:
     three = nameplate.phases == 3
     if kind == "single":
         return [None]
@@ -137,6 +140,8 @@ def element_names(kind: str, nameplate: Nameplate, survey_ids: list[str]) -> lis
         return [c.id for c in nameplate.capacitors]
     if kind == "survey_point":
         return list(survey_ids)
+    if kind == "bonding_point":
+        return list(bonding_ids or [])
     raise ValueError(kind)  # pragma: no cover - guarded by the model's Literal
 
 
@@ -290,6 +295,22 @@ def _check_rules(model: Checklist, document: Document, problems: list[Problem]) 
                 continue
             for message in rule.validate_params(check.params, item):
                 problems.append(document.problem((*path, "params"), message))
+            fixed = _FIXED_ELEMENTS.get(item.per)
+            if check.element is not None and fixed is not None and check.element not in fixed:
+                problems.append(document.problem(
+                    (*path, "element"),
+                    f"'{check.element}' is not a {item.per.replace('_', ' ')}"
+                    f"{_suggest(check.element, list(fixed))}"))
+
+
+# Element names that do not depend on the machine, for checking a check's 'element'.
+_FIXED_ELEMENTS: dict[str, tuple[str, ...]] = {
+    "single": (),
+    "line": ("L1-L2", "L2-L3", "L3-L1", "L-N"),
+    "phase": ("L1", "L2", "L3", "L"),
+    "isolation_point": ("L1-L2", "L2-L3", "L3-L1", "L1-PE", "L2-PE", "L3-PE", "N-PE", "L-N",
+                        "L-PE"),
+}
 
 
 # ------------------------------------------------------------------ readings
@@ -313,11 +334,12 @@ def _parse_reading(item: ChecklistItem, checklist_id: str, element: str | None, 
     document = visit.document
     extras: dict[str, Quantity] = {}
     range_holder: list[Quantity] = []
+    capture_holder: list[Any] = []
     instrument = visit.model.default_instrument if item.record == "quantity" else None
     note = None
     value_path = path
     if isinstance(raw, dict):
-        allowed = {"value", "instrument", "note", "range", *item.also_record}
+        allowed = {"value", "instrument", "note", "range", "capture", *item.also_record}
         for key in raw:
             if key not in allowed:
                 problems.append(document.problem(
@@ -336,6 +358,9 @@ def _parse_reading(item: ChecklistItem, checklist_id: str, element: str | None, 
                     f"instrument '{instrument}' is not in instruments.yaml"
                     f"{_suggest(instrument, sorted(instruments))}"))
         note = raw.get("note")
+        if raw.get("capture") is not None:
+            capture_holder.append(_load_capture(raw["capture"], (*path, "capture"), visit,
+                                                problems))
         if raw.get("range") is not None and item.unit:
             try:
                 extras_range = parse_quantity(raw["range"], unit_dimension(item.unit))
@@ -355,7 +380,8 @@ def _parse_reading(item: ChecklistItem, checklist_id: str, element: str | None, 
     line = document.where(value_path)[0]
     common = dict(checklist=checklist_id, item=item.id, element=element, instrument=instrument,
                   extras=extras, note=note, file=document.display_name, line=line,
-                  range=range_holder[0] if range_holder else None)
+                  range=range_holder[0] if range_holder else None,
+                  capture=capture_holder[0] if capture_holder else None)
     if value_raw is None or (isinstance(value_raw, str) and not value_raw.strip()):
         return Reading(value=None, not_applicable=False, **common)
     if isinstance(value_raw, str) and value_raw.strip().lower() in _NOT_APPLICABLE:
@@ -382,6 +408,60 @@ def _parse_reading(item: ChecklistItem, checklist_id: str, element: str | None, 
     return Reading(value=value, not_applicable=False, **common)
 
 
+_CAPTURE_KEYS = ("file", "channels", "voltage", "current", "time_column")
+
+
+def _load_capture(raw: Any, path: KeyPath, visit: LoadedVisit, problems: list[Problem]) -> Any:
+    """Read and analyse an attached scope capture; None (with problems) when it cannot be."""
+    from .captures import analyse_capture, parse_scaling
+
+    document = visit.document
+    if not isinstance(raw, dict) or "file" not in raw or "channels" not in raw:
+        problems.append(document.problem(
+            path, "a capture needs 'file' and 'channels', e.g. capture: {file: "
+                  "captures/line.csv, channels: {CH1: x100, CH2: 10 mV/A}, current: CH2}"))
+        return None
+    for key in raw:
+        if key not in _CAPTURE_KEYS:
+            problems.append(document.problem(
+                (*path, key), f"unknown field '{key}'{_suggest(key, list(_CAPTURE_KEYS))}"))
+    machine_folder = visit.path.parent.parent
+    relative = Path(str(raw["file"]))
+    resolved = (machine_folder / relative).resolve()
+    if (relative.is_absolute() or ".." in relative.parts
+            or not resolved.is_relative_to(machine_folder.resolve())):
+        problems.append(document.problem(
+            (*path, "file"), f"'{raw['file']}' leaves the machine folder; captures must sit "
+                             "inside it (write a path relative to the machine folder)"))
+        return None
+    if not resolved.is_file():
+        problems.append(document.problem(
+            (*path, "file"), f"capture '{raw['file']}' not found in {machine_folder.name}/"))
+        return None
+    channels = {}
+    if not isinstance(raw["channels"], dict):
+        problems.append(document.problem((*path, "channels"),
+                                         "expected channel → scaling, e.g. {CH1: x100}"))
+        return None
+    for name, text in raw["channels"].items():
+        try:
+            channels[str(name)] = parse_scaling(str(text))
+        except (ValueError, InputError) as error:
+            problems.append(document.problem((*path, "channels", name), str(error)))
+    if len(channels) != len(raw["channels"]):
+        return None
+    try:
+        analysis = analyse_capture(resolved, channels, voltage_channel=raw.get("voltage"),
+                                   current_channel=raw.get("current"),
+                                   time_column=raw.get("time_column"))
+    except InputError as error:
+        problems.extend(error.problems)
+        return None
+    # Records name the file as the job names it, never by this computer's absolute path.
+    display = Path(document.display_name).parent.parent / relative
+    return dataclasses.replace(analysis, source=display.as_posix())
+
+
 def _parse_readings(visit: LoadedVisit, machine: LoadedMachine,
                     checklists: dict[str, LoadedChecklist], instruments: dict[str, Instrument],
                     problems: list[Problem]) -> None:
@@ -389,6 +469,7 @@ def _parse_readings(visit: LoadedVisit, machine: LoadedMachine,
     applicable = machine.model.checklists
     nameplate = machine.model.nameplate
     survey_ids = [p.id for p in machine.model.survey_points]
+    bonding_ids = [p.id for p in machine.model.bonding_points]
     if visit.model.default_instrument and visit.model.default_instrument not in instruments:
         problems.append(document.problem(
             ("default_instrument",),
@@ -417,7 +498,7 @@ def _parse_readings(visit: LoadedVisit, machine: LoadedMachine,
                     path, f"checklist '{checklist_id}' has no item '{item_id}'"
                           f"{_suggest(item_id, known)}"))
                 continue
-            elements = element_names(item.per, nameplate, survey_ids)
+            elements = element_names(item.per, nameplate, survey_ids, bonding_ids)
             parsed: list[Reading] = []
             if item.per == "single":
                 reading = _parse_reading(item, checklist_id, None, raw, path, visit,
@@ -610,7 +691,8 @@ def _check_machine(machine: LoadedMachine, checklists: dict[str, LoadedChecklist
                 f"no checklist '{checklist_id}'{_suggest(checklist_id, sorted(checklists))}"))
     nameplate = machine.model.nameplate
     for kind, entries in (("winding", nameplate.windings), ("capacitor", nameplate.capacitors),
-                          ("survey point", machine.model.survey_points)):
+                          ("survey point", machine.model.survey_points),
+                          ("bonding point", machine.model.bonding_points)):
         seen: set[str] = set()
         for entry in entries:
             if entry.id in seen:

@@ -122,11 +122,42 @@ def plan_site(result: JobResult) -> list[SitePage]:
     return pages
 
 
+def _capture_plots(env: object, visit: VisitResult) -> dict[str, dict[str, object]]:
+    """SVG plots of every capture attached to a visit's readings, keyed item/element."""
+    from markupsafe import Markup
+
+    from .rendering.plots import PlotTrace, render_spectrum_svg, render_waveform_svg
+
+    plots: dict[str, dict[str, object]] = {}
+    for item in visit.items:
+        for element in item.elements:
+            capture = element.capture
+            if capture is None:
+                continue
+            # A few cycles are enough to see the shape; the analysis used the whole capture.
+            cycles = 3 / capture.frequency
+            mask = capture.time - capture.time[0] <= cycles
+            traces = [PlotTrace(f"{c.name} ({'voltage' if c.unit == 'V' else 'current'})",
+                               c.unit, capture.signals[c.name][mask]) for c in capture.channels]
+            waveform = render_waveform_svg(env, capture.time[mask] - capture.time[0], traces)
+            spectra = []
+            for channel in capture.channels:
+                spectrum = channel.spectrum
+                spectra.append((channel.name, Markup(render_spectrum_svg(
+                    env, list(spectrum.orders), list(spectrum.percent_of_fundamental)))))
+            plots[f"{item.key}/{element.element or ''}"] = {
+                "waveform": Markup(waveform), "spectra": spectra}
+    return plots
+
+
 def _render_pages(result: JobResult, pages: list[SitePage], staging: Path) -> None:
     env = make_environment({"job": result, "tool_version": __version__})
     for page in pages:
         template = env.get_template(page.template)
-        html = template.render(root=page.root, **page.context)
+        extra = {}
+        if page.template == "visit.html":
+            extra["plots"] = _capture_plots(env, page.context["visit"])  # type: ignore[arg-type]
+        html = template.render(root=page.root, **page.context, **extra)
         target = staging / page.path
         target.parent.mkdir(parents=True, exist_ok=True)
         target.write_text(html, encoding="utf-8")

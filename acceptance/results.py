@@ -112,6 +112,7 @@ class ElementResult:
     line: int | None = None
     uncertainty: str | None = None  # "U = 1.6 V (k = 2), from …", or why it is unknown
     findings: tuple[str, ...] = ()  # about the instrument: category, response, calibration
+    capture: Any = None  # CaptureAnalysis of an attached scope capture (JSON: its own schema)
 
 
 @dataclass(frozen=True)
@@ -198,6 +199,10 @@ class JobResult:
 
 
 def _plain(value: Any) -> Any:
+    if type(value).__name__ == "CaptureAnalysis":
+        from .captures import capture_to_json
+
+        return capture_to_json(value)
     if isinstance(value, Enum):
         return value.value
     if isinstance(value, _dt.date):

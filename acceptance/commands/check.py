@@ -50,11 +50,15 @@ def summary_lines(result: JobResult, show_all: bool = False) -> list[str]:
                     lines.append(f"      {_MARK[element.verdict]} {element.verdict.value:<16} "
                                  f"{where}: {reading}")
                     for check in element.checks:
-                        if check.verdict is element.verdict or show_all:
-                            detail = f"{check.limit}"
+                        if check.verdict.is_open or show_all:
+                            detail = f"{_MARK[check.verdict]} {check.limit}"
+                            if check.compared:
+                                detail = f"{_MARK[check.verdict]} {check.compared}: {check.limit}"
                             if check.message:
                                 detail += f" — {check.message}"
                             lines.append(f"          {detail}  ({check.source})")
+                    for finding in element.findings:
+                        lines.append(f"          ⚠ {finding}")
                     if element.line:
                         lines.append(f"          at {visit.source_file}:{element.line}")
                 if not item.elements and show_all:

@@ -24,7 +24,14 @@ from ..results import (
     worst,
 )
 from ..units import Quantity
-from .instruments import ReadingUncertainty, assess, instrument_findings, reading_uncertainty
+from . import derived  # noqa: F401 - registers the derived rules into RULES
+from .instruments import (
+    ReadingUncertainty,
+    assess,
+    capture_findings,
+    instrument_findings,
+    reading_uncertainty,
+)
 from .rules import RULES, Context
 
 __all__ = ["evaluate_job", "visit_state"]
@@ -40,13 +47,20 @@ def _applies(item: ChecklistItem, machine: LoadedMachine) -> bool:
         "survey_points": bool(machine.model.survey_points),
         "rated_current": nameplate.rated_current is not None,
         "protective_device": nameplate.protective_device is not None,
+        "stored_energy": any(c.working_voltage is not None for c in nameplate.capacitors),
+        "bonding_points": bool(machine.model.bonding_points),
+        # NEC 630.11(A) sizes for the duty cycle only when it is below 100 %.
+        "intermittent_duty": (nameplate.duty_cycle is not None
+                              and nameplate.duty_cycle.value < 100.0),
+        "supply_cable": nameplate.supply_cable is not None,
     }[item.applies_when]
 
 
 def _element_spec(item: ChecklistItem, machine: LoadedMachine, element: str | None):  # noqa: ANN202
     nameplate = machine.model.nameplate
     pool = {"winding": nameplate.windings, "capacitor": nameplate.capacitors,
-            "survey_point": machine.model.survey_points}.get(item.per, [])
+            "survey_point": machine.model.survey_points,
+            "bonding_point": machine.model.bonding_points}.get(item.per, [])
     return next((entry for entry in pool if entry.id == element), None)
 
 
@@ -79,8 +93,11 @@ def _evaluate_element(item: ChecklistItem, checklist: LoadedChecklist, element: 
     to_earth = (Quantity(rated.value / 3 ** 0.5, rated.dimension) if nameplate.phases == 3
                 else rated)
     findings = instrument_findings(instrument, item, to_earth, visit.model.date)
+    findings += capture_findings(instrument, reading.capture)
     checks: list[CheckResult] = []
     for spec in item.checks:
+        if spec.element is not None and spec.element != element:
+            continue
         key = f"{checklist.id}.{item.id}"
         override = _override(job, key, spec.id)
         params = {**spec.params, **(override.params if override else {})}
@@ -112,7 +129,7 @@ def _evaluate_element(item: ChecklistItem, checklist: LoadedChecklist, element: 
                          extras, reading.note, tuple(checks), reading.line,
                          uncertainty=(uncertainty.phrase if isinstance(uncertainty,
                                       ReadingUncertainty) else uncertainty),
-                         findings=tuple(findings))
+                         findings=tuple(findings), capture=reading.capture)
 
 
 def _evaluate_item(item: ChecklistItem, checklist: LoadedChecklist, job: Job,
@@ -123,7 +140,8 @@ def _evaluate_item(item: ChecklistItem, checklist: LoadedChecklist, job: Job,
         verdict = Verdict.NOT_APPLICABLE
     else:
         survey_ids = [p.id for p in machine.model.survey_points]
-        names = element_names(item.per, machine.model.nameplate, survey_ids)
+        bonding_ids = [p.id for p in machine.model.bonding_points]
+        names = element_names(item.per, machine.model.nameplate, survey_ids, bonding_ids)
         by_element = {r.element: r for r in readings}
         elements = tuple(
             _evaluate_element(item, checklist, name, by_element.get(name), job, machine, visit)
@@ -143,8 +161,13 @@ def visit_state(items: list[ItemResult]) -> VisitState:
     """
     if any(i.safety_critical and i.verdict.is_failure for i in items):
         return VisitState.FAIL
-    if any(i.required and i.verdict in (Verdict.NOT_TESTED, Verdict.UNDETERMINED)
-           for i in items):
+    def undecided(item: ItemResult) -> bool:
+        return item.verdict in (Verdict.NOT_TESTED, Verdict.UNDETERMINED) or any(
+            element.verdict is Verdict.NOT_TESTED
+            or any(check.verdict is Verdict.UNDETERMINED for check in element.checks)
+            for element in item.elements)
+
+    if any(i.required and undecided(i) for i in items):
         return VisitState.INCOMPLETE
     if any(i.verdict.is_failure for i in items):
         return VisitState.PASS_WITH_DEFICIENCIES

@@ -147,6 +147,29 @@ def assess(outcome: Outcome, uncertainty: ReadingUncertainty | str, rule_name: s
     return Assessment(verdict, decision, conformance, "; ".join(messages) or None)
 
 
+def capture_findings(instrument: Instrument | None, capture) -> list[str]:  # noqa: ANN001
+    """What the capture says about the instrument's reading on this waveform."""
+    if capture is None:
+        return []
+    findings = []
+    for channel in capture.channels:
+        metrics = channel.metrics
+        response = unc.average_responding_finding(
+            instrument_true_rms=instrument is None or instrument.response != "average-responding",
+            crest_factor=metrics.crest_factor, form_factor=metrics.form_factor)
+        if response.flagged and instrument is not None:
+            unit = channel.unit
+            findings.append(
+                f"{instrument.id} is average-responding and the {channel.name} waveform is not "
+                f"sinusoidal (crest factor {metrics.crest_factor:.2f}): true RMS "
+                f"{metrics.rms:.4g} {unit} from the capture, this meter would show "
+                f"{metrics.average_responding_ac:.4g} {unit}")
+        if channel.clipped:
+            findings.append(f"capture channel {channel.name} clips: its RMS and peak are "
+                            "under-estimated")
+    return findings
+
+
 def instrument_findings(instrument: Instrument | None, item: ChecklistItem,
                         working_voltage: Quantity | None, visit_date) -> list[str]:  # noqa: ANN001
     """Safety and suitability findings about the instrument itself (not the reading)."""
