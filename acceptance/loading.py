@@ -45,6 +45,8 @@ VISITS_DIR = "visits"
 MAX_MACHINES = 2000
 MAX_VISITS_PER_MACHINE = 200
 
+_UNVALIDATED: Any = None  # placeholder for an instrument whose entry has problems
+
 _CONFIRM_TRUE = {"yes", "y", "done", "confirmed", "true"}
 _CONFIRM_FALSE = {"no", "n", "not done", "false"}
 _NOT_APPLICABLE = {"n/a", "na", "not applicable"}
@@ -561,6 +563,14 @@ def load_job(root: Path) -> Job:
                         ("instruments", index, "calibration_due"),
                         "calibration_due is before calibrated; check the dates"))
                 instruments[instrument.id] = instrument
+
+    if instruments_document is not None and len(instruments) == 0:
+        # The register did not validate: still know its ids, so readings that name them are
+        # not reported a second time as unknown instruments.
+        raw = instruments_document.data if isinstance(instruments_document.data, dict) else {}
+        for entry in raw.get("instruments") or []:
+            if isinstance(entry, dict) and isinstance(entry.get("id"), str):
+                instruments.setdefault(entry["id"], _UNVALIDATED)
 
     checklists = _load_checklists(root, problems)
     machines = _load_machines(root, checklists, instruments, problems)

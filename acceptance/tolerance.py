@@ -13,6 +13,10 @@ from .units import Dimension, Quantity, format_value
 __all__ = ["Tolerance", "Window", "AtMost", "AtLeast", "margin_phrase"]
 
 
+def _slack(limit: float, value: float) -> float:
+    return 1e-12 * max(abs(limit), abs(value))
+
+
 @dataclass(frozen=True)
 class Tolerance:
     """Base: a closed interval, possibly one-sided, in base units of ``dimension``."""
@@ -25,9 +29,11 @@ class Tolerance:
     digits: int = 4
 
     def contains(self, value: float) -> bool:
-        if self.lower is not None and value < self.lower:
+        # Limits are closed. A limit computed as nominal × (1 ± p) carries a rounding error of
+        # a few ulps, so a reading written exactly on it must not fall outside by 1e-21 F.
+        if self.lower is not None and value < self.lower - _slack(self.lower, value):
             return False
-        return not (self.upper is not None and value > self.upper)
+        return not (self.upper is not None and value > self.upper + _slack(self.upper, value))
 
     def _fmt(self, value: float) -> str:
         return format_value(value, self.dimension, self.unit, self.digits)

@@ -178,9 +178,6 @@ def test_several_problems_across_files_all_reported_sorted(make_job):
     ]
 
 
-@pytest.mark.xfail(strict=True, reason="loading.py: when instruments.yaml fails validation "
-                   "the register is dropped, so every reading naming a listed instrument is "
-                   "also reported as 'not in instruments.yaml'")
 def test_invalid_register_does_not_hide_its_instruments(make_job):
     instruments = ("instruments:\n"
                    "  - {id: dmm-1, kind: multimeter, response: true-rms}\n"
