@@ -209,6 +209,12 @@ def _validate(model: type[BaseModel], document: Document, problems: list[Problem
                 loc = loc  # the parent mapping is located by Document.where
             elif kind in ("value_error", "assertion_error"):
                 message = str(detail.get("ctx", {}).get("error", detail["msg"]))
+            elif kind == "too_short":
+                wanted = detail.get("ctx", {}).get("min_length", 1)
+                message = (f"needs at least {wanted} entr{'y' if wanted == 1 else 'ies'}; "
+                           f"for example {loc[-1]}: [R. Name]" if loc and loc[-1] ==
+                           "performed_by" else
+                           f"needs at least {wanted} entr{'y' if wanted == 1 else 'ies'}")
             elif kind == "literal_error":
                 expected = detail.get("ctx", {}).get("expected", "")
                 message = f"{detail['input']!r} is not allowed; use one of {expected}"
@@ -531,8 +537,12 @@ def _parse_readings(visit: LoadedVisit, machine: LoadedMachine,
 # ------------------------------------------------------------------ the job
 
 
-def load_job(root: Path) -> Job:
-    """Load and validate the job folder at ``root``; raise :class:`InputError` with all problems."""
+def load_job(root: Path, include_visits: bool = True) -> Job:
+    """Load and validate the job folder at ``root``; raise :class:`InputError` with all problems.
+
+    ``include_visits=False`` loads the job, instruments, checklists and machines only (to
+    scaffold a new visit while other visits are still being filled in).
+    """
     root = Path(root)
     problems: list[Problem] = []
     if not root.is_dir():
@@ -573,7 +583,7 @@ def load_job(root: Path) -> Job:
                 instruments.setdefault(entry["id"], _UNVALIDATED)
 
     checklists = _load_checklists(root, problems)
-    machines = _load_machines(root, checklists, instruments, problems)
+    machines = _load_machines(root, checklists, instruments, problems, include_visits)
 
     if job_model is not None and job_document is not None:
         _check_overrides(job_model, job_document, checklists, problems)
@@ -644,8 +654,8 @@ def _check_overrides(job: JobFile, document: Document, checklists: dict[str, Loa
 
 
 def _load_machines(root: Path, checklists: dict[str, LoadedChecklist],
-                   instruments: dict[str, Instrument],
-                   problems: list[Problem]) -> list[LoadedMachine]:
+                   instruments: dict[str, Instrument], problems: list[Problem],
+                   include_visits: bool = True) -> list[LoadedMachine]:
     machines_root = root / MACHINES_DIR
     if not machines_root.is_dir():
         problems.append(Problem(_display(machines_root, root), 1, 1, "",
@@ -670,7 +680,8 @@ def _load_machines(root: Path, checklists: dict[str, LoadedChecklist],
         machine = LoadedMachine(id=folder.name, folder=folder, document=document, model=model)
         _check_machine(machine, checklists, problems)
         visits_root = folder / VISITS_DIR
-        visit_paths = sorted(visits_root.glob("*.yaml")) if visits_root.is_dir() else []
+        visit_paths = (sorted(visits_root.glob("*.yaml"))
+                       if visits_root.is_dir() and include_visits else [])
         if len(visit_paths) > MAX_VISITS_PER_MACHINE:
             problems.append(document.problem((), f"{len(visit_paths)} visits; the limit is "
                                                  f"{MAX_VISITS_PER_MACHINE} per machine"))

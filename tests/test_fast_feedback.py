@@ -1,0 +1,160 @@
+"""Fast feedback while filling in: scaffold, schemas, live preview, a light check."""
+
+from __future__ import annotations
+
+import json
+import socket
+import subprocess
+import sys
+import time
+import urllib.request
+from pathlib import Path
+
+import pytest
+
+from acceptance.cli import main
+from acceptance.evaluation import evaluate_job
+from acceptance.loading import load_job
+from acceptance.results import Verdict
+from acceptance.schemas import schema_documents, schema_text
+
+REPO = Path(__file__).resolve().parents[1]
+
+
+def test_committed_schemas_match_the_model():
+    # A changed model field must come with regenerated schemas (acceptance schema).
+    for name, document in schema_documents().items():
+        committed = (REPO / "schemas" / name).read_text(encoding="utf-8")
+        assert committed == schema_text(document), (
+            f"schemas/{name} is stale; run: acceptance schema")
+
+
+def test_schema_check_reports_drift(tmp_path, capsys):
+    assert main(["schema", "-o", str(tmp_path)]) == 0
+    assert main(["schema", "-o", str(tmp_path), "--check"]) == 0
+    (tmp_path / "visit.schema.json").write_text("{}\n", encoding="utf-8")
+    assert main(["schema", "-o", str(tmp_path), "--check"]) == 1
+    assert "visit.schema.json" in capsys.readouterr().out
+
+
+def test_new_writes_every_item_with_a_schema_line(make_job, capsys):
+    machine = {"nameplate": {"windings": [
+        {"id": "coil", "name": "Coil", "material": "copper", "thermal_class": "F"}]},
+        "checklists": ["lockout", "supply", "windings"]}
+    root = make_job(machine=machine)
+    assert main(["new", str(root), "m1", "--kind", "periodic", "--date", "2026-12-01"]) == 0
+    target = root / "machines" / "m1" / "visits" / "2026-12-01-periodic.yaml"
+    text = target.read_text(encoding="utf-8")
+    assert text.startswith("# yaml-language-server: $schema=../../../.schemas/visit.schema.json")
+    assert (root / ".schemas" / "visit.schema.json").is_file()
+    for checklist in ("lockout", "supply", "windings"):
+        items = load_job(root, include_visits=False).checklists[checklist].model.items
+        for item in items:
+            # an item with no element on this machine stays as a comment saying so
+            assert f"    {item.id}:" in text or f"    # {item.id}: no " in text, item.id
+    # three-phase lines and the winding's element appear as blanks with their units
+    assert "      L1-L2:      # V" in text
+    assert "      coil:\n        value:      # Ω\n        temperature:      # °C" in text
+
+
+def test_new_scaffold_once_named_loads_as_not_tested(make_job):
+    root = make_job()
+    main(["new", str(root), "m1", "--kind", "periodic", "--date", "2026-12-01"])
+    target = root / "machines" / "m1" / "visits" / "2026-12-01-periodic.yaml"
+    target.write_text(target.read_text(encoding="utf-8").replace(
+        "performed_by: []", "performed_by: [A. Tester]"), encoding="utf-8")
+    result = evaluate_job(load_job(root))
+    visit = next(v for v in result.visits if v.id == "2026-12-01-periodic")
+    assert {i.verdict for i in visit.items} <= {Verdict.NOT_TESTED, Verdict.NOT_APPLICABLE}
+
+
+def test_new_never_overwrites_without_saying_so(make_job, capsys):
+    root = make_job()
+    args = ["new", str(root), "m1", "--kind", "periodic", "--date", "2026-12-01"]
+    assert main(args) == 0
+    target = root / "machines" / "m1" / "visits" / "2026-12-01-periodic.yaml"
+    target.write_text("kept: true\n", encoding="utf-8")
+    assert main(args) == 2
+    assert "already exists and was left untouched" in capsys.readouterr().err
+    assert target.read_text(encoding="utf-8") == "kept: true\n"
+    assert main([*args, "--force"]) == 0
+    assert "replaced" in capsys.readouterr().out
+
+
+def test_new_names_an_unknown_machine(make_job, capsys):
+    root = make_job()
+    assert main(["new", str(root), "m2", "--kind", "periodic"]) == 2
+    assert "no machine 'm2' in this job (machines: m1)" in capsys.readouterr().err
+
+
+def test_check_does_not_import_the_pdf_stack(make_job):
+    # Start-up: check must stay light (WeasyPrint, Jinja2 and the capture importer are for
+    # the build and the capture command only).
+    root = make_job()
+    code = (f"import sys; sys.argv = ['acceptance', 'check', {str(root)!r}]\n"
+            "from acceptance.cli import main\n"
+            "main()\n"
+            "heavy = [m for m in ('weasyprint', 'pydyf', 'jinja2', 'markdown_it') "
+            "if m in sys.modules]\n"
+            "print('HEAVY', heavy)")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True)
+    assert "HEAVY []" in out.stdout, out.stdout + out.stderr
+
+
+def _free_port() -> int:
+    with socket.socket() as probe:
+        probe.bind(("127.0.0.1", 0))
+        return probe.getsockname()[1]
+
+
+def _get(url: str) -> str:
+    with urllib.request.urlopen(url, timeout=5) as response:  # noqa: S310 - loopback only
+        return response.read().decode("utf-8")
+
+
+def _wait_for(predicate, timeout: float = 20.0) -> None:
+    deadline = time.monotonic() + timeout
+    while time.monotonic() < deadline:
+        try:
+            if predicate():
+                return
+        except OSError:
+            pass
+        time.sleep(0.2)
+    raise AssertionError("timed out")
+
+
+def test_serve_rebuilds_shows_errors_and_keeps_the_last_good_build(make_job, tmp_path):
+    root = make_job(visit={"readings": {"supply": {"frequency": "50.0 Hz"}}})
+    port = _free_port()
+    process = subprocess.Popen(
+        [sys.executable, "-m", "acceptance.cli", "serve", str(root), "--port", str(port),
+         "--interval", "0.2", "-o", str(tmp_path / "preview")],
+        stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
+    base = f"http://127.0.0.1:{port}"
+    try:
+        _wait_for(lambda: "Test machine" in _get(f"{base}/index.html"))
+        status = json.loads(_get(f"{base}/__acceptance/status"))
+        visit = root / "machines" / "m1" / "visits" / "v1.yaml"
+        visit.write_text(visit.read_text(encoding="utf-8").replace("50.0 Hz", "50,0 Hz"),
+                         encoding="utf-8")
+        _wait_for(lambda: json.loads(_get(f"{base}/__acceptance/status"))["generation"]
+                  > status["generation"])
+        page = _get(f"{base}/index.html")
+        assert "The last change has input problems; this is the last good build." in page
+        assert "uses a comma" in page
+        assert "Test machine" in page  # the last good build is still served
+        visit.write_text(visit.read_text(encoding="utf-8").replace("50,0 Hz", "50.0 Hz"),
+                         encoding="utf-8")
+        _wait_for(lambda: not json.loads(_get(f"{base}/__acceptance/status"))["problems"])
+        assert "input problems" not in _get(f"{base}/index.html")
+    finally:
+        process.terminate()
+        process.wait(timeout=10)
+
+
+@pytest.mark.parametrize("command", ["new", "serve", "schema"])
+def test_help(command, capsys):
+    with pytest.raises(SystemExit) as caught:
+        main([command, "--help"])
+    assert caught.value.code == 0
