@@ -132,7 +132,7 @@ def assert_documented_shape(data: dict) -> int:
                         assert DOCUMENTED["element"] <= element.keys()
                         assert element["verdict"] in VERDICTS
                         if element["value"] is not None:
-                            # Every value carries its unit (a plain count may be unitless).
+                            # Every reading carries its unit.
                             assert isinstance(element["value"], int | float)
                             assert element["unit"], element
                             values += 1
@@ -142,7 +142,9 @@ def assert_documented_shape(data: dict) -> int:
                             assert check["limit"] and check["source"]
                             for step in check["steps"]:
                                 assert DOCUMENTED["step"] <= step.keys()
+                                assert isinstance(step["unit"], str)
                                 if step["value"] is not None:
+                                    # A pure number names its unit too: "1".
                                     assert step["unit"], step
                                     values += 1
         if machine["visits"]:

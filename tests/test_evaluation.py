@@ -130,7 +130,8 @@ def test_average_responding_reading_against_an_rms_rating_is_undetermined(make_j
     result = evaluate(current_job(make_job, {"value": "9.8 A", "instrument": "clamp-avg"}))
     element = result.element("current.load_current", "L")
     assert element.verdict is Verdict.UNDETERMINED
-    for check in element.checks:
+    for check_id in ("nameplate", "protection"):
+        check = result.check("current.load_current", "L", check_id)
         assert check.verdict is Verdict.UNDETERMINED
         assert "average-responding" in check.message
     assert result.visit().state is VisitState.INCOMPLETE
