@@ -19,7 +19,8 @@ from pydantic import BaseModel, ConfigDict, Field, PlainValidator, WithJsonSchem
 from .units import Basis, Dimension, Quantity, UnitError, parse_quantity
 
 __all__ = [
-    "AccuracyEntry", "CapacitorSpec", "CheckSpec", "Checklist", "ChecklistItem", "Conductor",
+    "AccuracyEntry", "BondingPoint", "CapacitorSpec", "CheckSpec", "Checklist", "ChecklistItem",
+    "Conductor",
     "Instrument",
     "InstrumentRegister", "JobFile", "LimitOverride", "MachineFile", "Nameplate",
     "ProtectiveDevice", "SignOff", "Source", "StandardInForce", "SupplyCable", "SurveyPoint",
@@ -117,7 +118,7 @@ class Source(_Strict):
 
 #: What an item is recorded for: one reading, or one per element of the machine.
 ELEMENT_KINDS = ("single", "line", "phase", "isolation_point", "winding", "capacitor",
-                 "survey_point")
+                 "survey_point", "bonding_point")
 
 
 class CheckSpec(_Strict):
@@ -127,6 +128,9 @@ class CheckSpec(_Strict):
     rule: str = Field(description="name of the rule, e.g. 'at_most', 'relative_to'")
     params: dict[str, Any] = Field(default_factory=dict)
     source: Source
+    element: str | None = Field(
+        None, description="apply this check to one element only (e.g. L3-L1): for a check "
+                          "that needs the readings of every element, such as voltage unbalance")
 
 
 class ChecklistItem(_Strict):
@@ -135,7 +139,7 @@ class ChecklistItem(_Strict):
     record: Literal["confirmation", "quantity"]
     unit: str | None = Field(None, description="unit the reading is written in, e.g. 'V'")
     per: Literal["single", "line", "phase", "isolation_point", "winding", "capacitor",
-                 "survey_point"] = "single"
+                 "survey_point", "bonding_point"] = "single"
     also_record: dict[str, str] = Field(
         default_factory=dict,
         description="further values recorded with the reading, name → unit (e.g. temperature: °C)")
@@ -146,7 +150,8 @@ class ChecklistItem(_Strict):
     needs_true_rms: bool = Field(
         False, description="an average-responding instrument is flagged on this item")
     applies_when: Literal["always", "capacitors", "windings", "three_phase", "survey_points",
-                          "rated_current", "protective_device"] = "always"
+                          "rated_current", "protective_device", "stored_energy",
+                          "bonding_points", "intermittent_duty", "supply_cable"] = "always"
     checks: list[CheckSpec] = Field(default_factory=list)
     guidance: str | None = None
     caution: str | None = None
@@ -277,6 +282,8 @@ class CapacitorSpec(_Strict):
     tolerance: str = Field(description="IEC 60062 letter (J, K, M, …) or '±5 %'")
     rated_voltage: Voltage | None = None
     working_voltage: Voltage | None = Field(None, description="peak voltage in service")
+    bleeder_resistance: Resistance | None = Field(
+        None, description="discharge resistor across the capacitor, from the drawings")
 
 
 class ProtectiveDevice(_Strict):
@@ -292,6 +299,22 @@ class Conductor(_Strict):
 class SupplyCable(Conductor):
     length: Length
     cores: int = Field(ge=1, le=7)
+    conductor_class: Literal[1, 2, 5] = Field(
+        2, description="IEC 60228 class: 1 solid, 2 stranded, 5 flexible")
+    ampacity: Current | None = Field(
+        None, description="current-carrying capacity as installed (IEC 60364-5-52)")
+    power_factor: float | None = Field(
+        None, gt=0, le=1, description="cos φ of the load for the voltage drop; 1 if absent")
+
+
+class BondingPoint(Conductor):
+    """A point of the protective bonding circuit, tested back to the PE terminal."""
+
+    id: Identifier
+    name: str
+    length: Length = Field(description="length of the protective conductor path tested")
+    conductor_class: Literal[1, 2, 5] | None = Field(
+        2, description="IEC 60228 class of a copper conductor; null to use the resistivity")
 
 
 class SurveyPoint(_Strict):
@@ -331,6 +354,8 @@ class MachineFile(_Strict):
     serial: str | None = None
     nameplate: Nameplate
     survey_points: list[SurveyPoint] = Field(default_factory=list)
+    bonding_points: list[BondingPoint] = Field(
+        default_factory=list, description="points of the protective bonding continuity test")
     checklists: list[Identifier] = Field(description="checklists that apply to this machine")
     notes: str | None = None
 

@@ -1,17 +1,18 @@
-"""Capacitor tolerance as written on a nameplate: an IEC 60062 letter or '±5 %'."""
+"""Capacitor tolerance as written on a nameplate: an IEC 60062 letter or '±5 %'.
+
+The letters themselves are :func:`acceptance.computations.capacitors.tolerance_code`;
+this module only reads the nameplate's spelling.
+"""
 
 from __future__ import annotations
 
 import re
 
+from ..computations import ComputationError
+from ..computations.capacitors import tolerance_code
+
 __all__ = ["tolerance_window", "tolerance_window_error"]
 
-# IEC 60062:2016, clause 5 (letter code for tolerance on capacitance) [M]
-_LETTERS: dict[str, tuple[float, float]] = {
-    "B": (-0.1, 0.1), "C": (-0.25, 0.25), "D": (-0.5, 0.5), "F": (-1.0, 1.0),
-    "G": (-2.0, 2.0), "J": (-5.0, 5.0), "K": (-10.0, 10.0), "M": (-20.0, 20.0),
-    "N": (-30.0, 30.0), "Z": (-20.0, 80.0),
-}
 _PERCENT_RE = re.compile(r"^(?:±|\+/-|\+-)\s*(\d+(?:\.\d+)?)\s*%$")
 _ASYM_RE = re.compile(r"^-\s*(\d+(?:\.\d+)?)\s*%\s*/\s*\+\s*(\d+(?:\.\d+)?)\s*%$")
 
@@ -19,9 +20,14 @@ _ASYM_RE = re.compile(r"^-\s*(\d+(?:\.\d+)?)\s*%\s*/\s*\+\s*(\d+(?:\.\d+)?)\s*%$
 def tolerance_window(code: str) -> tuple[float, float, str]:
     """(lower %, upper %, description) for a tolerance code or a written percentage."""
     text = code.strip()
-    if text.upper() in _LETTERS and len(text) == 1:
-        lower, upper = _LETTERS[text.upper()]
-        return lower, upper, f"IEC 60062 letter {text.upper()}"
+    if len(text) == 1 and text.isalpha():
+        try:
+            letter = tolerance_code(text)
+        except ComputationError as error:
+            raise ValueError(
+                f"'{code}' is not a capacitance tolerance: {error}, or write a percentage "
+                "such as '±5 %' or '-10 %/+50 %'") from None
+        return 100 * letter.lower, 100 * letter.upper, f"IEC 60062 letter {letter.letter}"
     match = _PERCENT_RE.match(text)
     if match:
         value = float(match.group(1))
@@ -31,7 +37,7 @@ def tolerance_window(code: str) -> tuple[float, float, str]:
         return -float(match.group(1)), float(match.group(2)), text
     raise ValueError(
         f"'{code}' is not a capacitance tolerance; write an IEC 60062 letter "
-        f"({', '.join(_LETTERS)}) or a percentage such as '±5 %' or '-10 %/+50 %'"
+        "(B, C, D, F, G, J, K, M, N, Z) or a percentage such as '±5 %' or '-10 %/+50 %'"
     )
 
 

@@ -141,6 +141,10 @@ def _check_param(rule: str, name: str, spec: Param, value: Any,
             parse_quantity(value, Dimension.RATIO)
         elif spec.kind == "temperature difference":
             parse_quantity(value, Dimension.TEMPERATURE_DIFFERENCE)
+        elif spec.kind == "temperature":
+            parse_quantity(value, Dimension.TEMPERATURE)
+        elif spec.kind == "flag" and not isinstance(value, bool):
+            return [f"parameter '{name}' of rule '{rule}' must be true or false"]
         elif spec.kind == "number":
             if isinstance(value, bool) or not isinstance(value, int | float) or value <= 0:
                 return [f"parameter '{name}' of rule '{rule}' must be a positive number"]
@@ -283,19 +287,42 @@ def _current_against(reading: Reading, context: Context, params: dict[str, Any])
                           f"{format_value(limit, Dimension.CURRENT, 'A')}", limit, "A"))
     steps.append(Step("basis of the reading", basis.phrase if basis else "not stated"))
     steps.append(Step(f"basis of the {label}", needed.phrase))
+    captured = _captured_current(reading)
+    if captured is not None and basis is not needed and needed in (Basis.RMS, Basis.AVERAGE):
+        # The capture settles what flows: compare its value on the rating's own basis.
+        value = captured.rms if needed is Basis.RMS else captured.average_responding_ac
+        label_value = "true RMS" if needed is Basis.RMS else "average-responding display"
+        steps.append(Step(f"{label_value} from the capture",
+                          format_value(value, Dimension.CURRENT, "A"), value, "A"))
+        steps.append(Step("loading", f"{100 * value / limit:.1f} % of the limit",
+                          100 * value / limit, "%"))
+        return _compare(tolerance, value, steps, compared=f"{label_value} from the capture",
+                        sensitivity=0.0)
     if basis is None:
         return Outcome(Verdict.UNDETERMINED, tolerance.describe(), tuple(steps),
                        message="the reading's basis is unknown; name the instrument or write "
                                "'RMS', 'avg' or 'd.c.' after the value")
     if basis is not needed:
+        advice = ("measure the d.c. current itself (e.g. on the d.c. side, meter on d.c.) and "
+                  "write 'd.c.' after the value" if needed is Basis.DC else
+                  "measure with a true-RMS instrument or attach a waveform capture")
         return Outcome(
             Verdict.UNDETERMINED, tolerance.describe(), tuple(steps),
             message=f"{_article(basis.phrase)} {basis.phrase} reading cannot be compared with "
-                    f"{_article(needed.phrase)} {needed.phrase} "
-                    f"{label}; measure with a true-RMS instrument or attach a waveform capture")
+                    f"{_article(needed.phrase)} {needed.phrase} {label}; {advice}")
     steps.append(Step("loading", f"{100 * reading.value.value / limit:.1f} % of the limit",
                       100 * reading.value.value / limit, "%"))
     return _compare(tolerance, reading.value.value, steps)
+
+
+def _captured_current(reading: Reading):  # noqa: ANN202 - WaveformMetrics | None
+    capture = reading.capture
+    if capture is None or capture.current_channel is None:
+        return None
+    for channel in capture.channels:
+        if channel.name == capture.current_channel:
+            return channel.metrics
+    return None
 
 
 # ------------------------------------------------------------------ windings
@@ -315,12 +342,13 @@ def _winding_resistance(reading: Reading, context: Context, params: dict[str, An
                              or context.job.model.reference_temperature)
     constant = rc.temperature_constant(winding.material, params.get("constant", "IEC 60034-1"))
     corrected = rc.resistance_at_temperature(
-        resistance=reading.value.value, temperature=measured_at.value,
-        target_temperature=reference_temperature.value, material=constant)
+        reading.value.value, temperature=measured_at.value,
+        target_temperature=reference_temperature.value, constant=constant)
     steps = [
         Step("winding temperature", measured_at.format(), measured_at.value, "°C"),
-        Step("conductor constant k", f"{constant.value:g} °C ({constant.describe()})",
-             constant.value, "°C"),
+        Step("conductor constant k", f"{constant.describe()}, as "
+             f"{params.get('constant', 'IEC 60034-1')} adopts for {constant.material}",
+             constant.temperature_constant, "°C"),
         Step(f"R at {reference_temperature.format()}", format_value(corrected, Dimension.RESISTANCE,
              reading.value.unit), corrected, "Ω",
              formula="R₂ = R₁ · (k + θ₂) / (k + θ₁)"),
@@ -392,14 +420,18 @@ def _rise_by_resistance(reading: Reading, context: Context, params: dict[str, An
     rise = tr.rise_by_resistance(
         cold_resistance=cold.value.value, hot_resistance=reading.value.value,
         cold_temperature=cold.extras["temperature"].value, ambient_temperature=ambient.value,
-        material=constant)
+        constant=constant)
     if winding.rise_limit is not None:
         limit_value = winding.rise_limit.value
         limit_source = "manufacturer's rise limit for this winding"
     else:
-        limit = tr.rise_limit(winding.thermal_class, params.get("standard", "IEC 60034-1"))
+        try:
+            limit = tr.rise_limit(winding.thermal_class, params.get("standard", "IEC 60034-1"))
+        except ValueError as error:
+            return Outcome(Verdict.UNDETERMINED, "Δθ ≤ class limit",
+                           message=f"{error}; give the manufacturer's rise_limit for the winding")
         limit_value = limit.limit
-        limit_source = limit.describe()
+        limit_source = tr.limit_source(limit)
     tolerance = Tolerance(Dimension.TEMPERATURE_DIFFERENCE, "Δθ", "K", None, limit_value)
     steps = (
         Step("cold resistance R₁", cold.value.format(), cold.value.value, "Ω"),
@@ -407,14 +439,14 @@ def _rise_by_resistance(reading: Reading, context: Context, params: dict[str, An
              cold.extras["temperature"].value, "°C"),
         Step("hot resistance R₂", reading.value.format(), reading.value.value, "Ω"),
         Step("ambient θa", ambient.format(), ambient.value, "°C"),
-        Step("conductor constant k", f"{constant.value:g} °C ({constant.describe()})",
-             constant.value, "°C"),
+        Step("conductor constant k", constant.describe(), constant.temperature_constant, "°C"),
         Step("temperature rise Δθ", format_value(rise, Dimension.TEMPERATURE_DIFFERENCE, "K"),
              rise, "K", formula="Δθ = (R₂ − R₁)/R₁ · (k + θ₁) + θ₁ − θa"),
         Step("limit", f"{limit_value:g} K — {limit_source}", limit_value, "K"),
     )
     # ∂Δθ/∂R₂ = (k + θ₁)/R₁: how a hot-resistance uncertainty moves the rise.
-    sensitivity = (constant.value + cold.extras["temperature"].value) / cold.value.value
+    sensitivity = (constant.temperature_constant + cold.extras["temperature"].value
+                   ) / cold.value.value
     return _compare(tolerance, rise, steps, sensitivity=sensitivity,
                     compared="temperature rise Δθ", source_note=limit_source)
 

@@ -1,0 +1,459 @@
+"""Rules whose verdict rests on a value derived from the reading and the nameplate.
+
+Each rule here computes something the reading alone does not show — stored energy
+and discharge, voltage unbalance, insulation resistance at 40 °C, the expected
+resistance of a bonding conductor, cable voltage drop, the source impedance and
+the equivalent current of an intermittent load — by the functions in
+:mod:`acceptance.computations`, and records every input, the formula, the result
+and its source as :class:`~acceptance.results.Step` values. Importing this module
+adds the rules to :data:`acceptance.evaluation.rules.RULES`.
+"""
+
+from __future__ import annotations
+
+import math
+from typing import TYPE_CHECKING, Any
+
+from ..computations import ComputationError, duty
+from ..computations import capacitors as cap
+from ..computations import insulation as ins
+from ..computations import resistance as res
+from ..computations import supply as sup
+from ..results import Step, Verdict
+from ..tolerance import Tolerance
+from ..units import Basis, Dimension, Quantity, format_value, parse_quantity
+from .rules import RULES, Context, Outcome, Param, Rule, _compare
+
+if TYPE_CHECKING:
+    from ..loading import Reading
+
+__all__ = ["DERIVED_RULES"]
+
+
+def _fmt(value: float, dimension: Dimension, unit: str | None = None, digits: int = 4) -> str:
+    return format_value(value, dimension, unit, digits)
+
+
+def _quantity_param(params: dict[str, Any], name: str, default: str,
+                    dimension: Dimension) -> float:
+    return parse_quantity(params.get(name, default), dimension).value
+
+
+# ------------------------------------------------------------------ stored energy
+
+
+def _stored_energy_discharge(reading: Reading, context: Context,
+                             params: dict[str, Any]) -> Outcome:
+    """Measured discharge time against IEC 60204-1 cl. 6.2.4, with the design figures."""
+    assert isinstance(reading.value, Quantity)
+    capacitor = context.element
+    limit = _quantity_param(params, "limit", "5 s", Dimension.TIME)
+    tolerance = Tolerance(Dimension.TIME, "t", "s", None, limit)
+    if capacitor is None or capacitor.working_voltage is None:
+        return Outcome(Verdict.UNDETERMINED, tolerance.describe(),
+                       message="the nameplate gives no working_voltage for this capacitor; "
+                               "add the peak voltage it charges to in service")
+    capacitance = capacitor.nominal.value
+    initial = capacitor.working_voltage.value
+    safe = cap.ResidualVoltageCheck.voltage_limit
+    charge_limit = cap.ResidualVoltageCheck.charge_limit
+    energy = cap.stored_energy(capacitance, initial)
+    charge = cap.stored_charge(capacitance, initial)
+    r_max = cap.maximum_bleeder_resistance(capacitance, initial, limit, safe)
+    steps = [
+        Step("capacitance C (nominal)", capacitor.nominal.format(), capacitance, "F"),
+        Step("working voltage U₀ (peak)", capacitor.working_voltage.format(), initial, "V"),
+        Step("stored energy E", _fmt(energy, Dimension.ENERGY, "J"), energy, "J",
+             formula="E = ½·C·U₀²"),
+        Step("stored charge Q", _fmt(charge, Dimension.CHARGE, "C"), charge, "C",
+             formula="Q = C·U₀"),
+        Step("largest bleeder for the limit R_max",
+             "no bleeder needed" if math.isinf(r_max) else _fmt(r_max, Dimension.RESISTANCE,
+                                                                "kΩ"),
+             None if math.isinf(r_max) else r_max, "Ω",
+             formula=f"R_max = t_lim / (C · ln(U₀ / {safe:g} V))"),
+    ]
+    message = None
+    if capacitor.bleeder_resistance is not None:
+        bleeder = capacitor.bleeder_resistance.value
+        expected = cap.discharge_time(capacitance, bleeder, initial, safe)
+        steps.append(Step("bleeder resistance R (nameplate)", capacitor.bleeder_resistance.format(),
+                          bleeder, "Ω"))
+        steps.append(Step(f"time to {safe:g} V through R", _fmt(expected, Dimension.TIME, "s"),
+                          expected, "s", formula=f"t = R·C · ln(U₀ / {safe:g} V)"))
+        if bleeder > r_max:
+            message = (f"the nameplate bleeder {capacitor.bleeder_resistance.format()} is above "
+                       f"R_max {_fmt(r_max, Dimension.RESISTANCE, 'kΩ')}: by design it cannot "
+                       f"meet {limit:g} s")
+    if charge <= charge_limit:
+        steps.append(Step("exemption", f"Q ≤ {charge_limit * 1e6:g} µC: no discharge time "
+                          "required"))
+        return Outcome(Verdict.PASS, f"{tolerance.describe()}, or Q ≤ {charge_limit * 1e6:g} µC",
+                       tuple(steps), message=message, compared="stored charge Q")
+    steps.append(Step("exemption", f"Q > {charge_limit * 1e6:g} µC: the discharge time applies"))
+    return _compare(tolerance, reading.value.value, steps, message=message,
+                    source_note=f"{safe:g} V within the limit unless Q ≤ "
+                                f"{charge_limit * 1e6:g} µC")
+
+
+# ------------------------------------------------------------------ unbalance
+
+_LINES = ("L1-L2", "L2-L3", "L3-L1")
+
+
+def _voltage_unbalance(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
+    """Both unbalance definitions from the three line voltages of the same item."""
+    limit_pct = _quantity_param(params, "limit", "2 %", Dimension.RATIO)
+    tolerance = Tolerance(Dimension.RATIO, "u₂", "%", None, limit_pct, digits=3)
+    key = f"{reading.checklist}.{reading.item}"
+    readings = []
+    for line in _LINES:
+        found = reading if line == reading.element else context.reading_of(key, line)
+        if found is None or not isinstance(found.value, Quantity):
+            return Outcome(Verdict.UNDETERMINED, tolerance.describe(),
+                           message=f"needs all three line voltages; {line} is not recorded")
+        readings.append(found.value.value)
+    try:
+        both = sup.voltage_unbalance(*readings)
+    except ComputationError as error:
+        return Outcome(Verdict.UNDETERMINED, tolerance.describe(), message=str(error))
+    nema_pct, sequence_pct = 100 * both.nema, 100 * both.sequence
+    derating = sup.nema_derating_factor(both.nema)
+    steps = [
+        Step("line voltages", ", ".join(f"{line} {_fmt(v, Dimension.VOLTAGE, 'V')}"
+                                        for line, v in zip(_LINES, readings, strict=True))),
+        Step("unbalance, NEMA MG 1 definition", f"{nema_pct:.3f} %", nema_pct, "%",
+             formula="u = max|Uᵢ − U_avg| / U_avg"),
+        Step("positive sequence |U₁|", _fmt(both.positive_sequence, Dimension.VOLTAGE, "V"),
+             both.positive_sequence, "V"),
+        Step("negative sequence |U₂|", _fmt(both.negative_sequence, Dimension.VOLTAGE, "V"),
+             both.negative_sequence, "V"),
+        Step("unbalance, sequence definition u₂", f"{sequence_pct:.3f} %", sequence_pct, "%",
+             formula="β = ΣU⁴/(ΣU²)², u₂ = √((1 − √(3 − 6β)) / (1 + √(3 − 6β)))"),
+        Step("NEMA derating factor",
+             f"{derating.factor:.2f} ({derating.standard} {derating.clause})"
+             if derating.factor is not None else derating.note,
+             derating.factor, "1", formula="read off the curve at the NEMA unbalance"),
+    ]
+    # How far the compared value moves per volt of one reading, combined over the three
+    # readings as if independent (GUM 5.1.2): ∂u₂/∂Uᵢ by central differences.
+    gradient = []
+    for index in range(3):
+        shifted = [list(readings), list(readings)]
+        shifted[0][index] += 0.01
+        shifted[1][index] -= 0.01
+        gradient.append(100 * (sup.voltage_unbalance_sequence(*shifted[0]).unbalance
+                               - sup.voltage_unbalance_sequence(*shifted[1]).unbalance) / 0.02)
+    sensitivity = math.sqrt(sum(g * g for g in gradient))
+    return _compare(tolerance, sequence_pct, steps, sensitivity=sensitivity,
+                    compared="unbalance, sequence definition u₂",
+                    source_note="negative-to-positive sequence; NEMA figure shown for comparison")
+
+
+# ------------------------------------------------------------------ insulation
+
+_IEEE_KINDS = tuple(kind.value for kind in ins.WindingInsulationKind)
+
+
+def _insulation_minimum(params: dict[str, Any], context: Context) -> ins.InsulationMinimum:
+    standard = params.get("standard", "IEC 60204-1")
+    if standard == "IEEE 43":
+        return ins.ieee_43_insulation_minimum(params.get("winding_kind", "random_wound"),
+                                              context.nameplate.rated_voltage.value)
+    return ins.iec_60204_1_insulation_minimum(bool(params.get("reduced_section", False)))
+
+
+def _insulation_resistance(reading: Reading, context: Context,
+                           params: dict[str, Any]) -> Outcome:
+    """Insulation resistance corrected to 40 °C against the minimum of a standard."""
+    assert isinstance(reading.value, Quantity)
+    minimum = _insulation_minimum(params, context)
+    minimum_value = (parse_quantity(params["minimum"], Dimension.RESISTANCE).value
+                     if "minimum" in params else minimum.minimum_resistance)
+    tolerance = Tolerance(Dimension.RESISTANCE, "R₄₀", "MΩ", minimum_value, None)
+    temperature = reading.extras.get("temperature")
+    test_voltage = reading.extras.get("test_voltage")
+    if temperature is None:
+        return Outcome(Verdict.UNDETERMINED, tolerance.describe(),
+                       message="record the winding or cable temperature with the reading "
+                               "(temperature: 25 °C) so it can be corrected to 40 °C")
+    if test_voltage is None:
+        return Outcome(Verdict.UNDETERMINED, tolerance.describe(),
+                       message="record the d.c. test voltage with the reading (test_voltage: "
+                               "500 V)")
+    corrected = ins.insulation_resistance_at_40c(reading.value.value, temperature.value)
+    steps = [
+        Step("test voltage", test_voltage.format(), test_voltage.value, "V"),
+        Step("temperature during the test", temperature.format(), temperature.value, "°C"),
+        Step("R at 40 °C", _fmt(corrected, Dimension.RESISTANCE, "MΩ"), corrected, "Ω",
+             formula="R₄₀ = R_t · 0.5^((40 °C − T)/10 K) (IEEE 43-2013, halving per 10 K)"),
+        Step("minimum", f"{_fmt(minimum_value, Dimension.RESISTANCE, 'MΩ')} — "
+             f"{minimum.standard}:{minimum.edition} {minimum.clause}, {minimum.scope}"
+             + (" (job value)" if "minimum" in params else ""), minimum_value, "Ω"),
+    ]
+    if minimum.test_voltage is not None and test_voltage.value < minimum.test_voltage - 1e-9:
+        return Outcome(Verdict.UNDETERMINED, tolerance.describe(), tuple(steps),
+                       message=f"tested at {test_voltage.format()}; {minimum.standard} "
+                               f"{minimum.clause} sets the minimum at "
+                               f"{minimum.test_voltage:g} V d.c.")
+    note = (f"minimum {minimum.standard}:{minimum.edition} {minimum.clause}; "
+            "reading corrected to 40 °C by IEEE 43 halving per 10 K")
+    return _compare(tolerance, corrected, steps, sensitivity=corrected / reading.value.value,
+                    compared="R at 40 °C", source_note=note)
+
+
+def _polarization_index(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
+    assert isinstance(reading.value, Quantity)
+    winding = context.element
+    one_minute = context.reading_of(params["one_minute_item"], reading.element)
+    if one_minute is None or not isinstance(one_minute.value, Quantity):
+        return Outcome(Verdict.UNDETERMINED, "PI ≥ class minimum",
+                       message=f"needs the 1-min reading ({params['one_minute_item']}) for "
+                               "this winding")
+    assessment = ins.assess_polarization_index(one_minute.value.value, reading.value.value,
+                                               winding.thermal_class)
+    tolerance = Tolerance(Dimension.NUMBER, "PI", "", assessment.minimum, None, digits=3)
+    steps = [
+        Step("IR after 1 min", one_minute.value.format(), one_minute.value.value, "Ω"),
+        Step("IR after 10 min", reading.value.format(), reading.value.value, "Ω"),
+        Step("polarization index PI", f"{assessment.index:.2f}", assessment.index, "1",
+             formula="PI = IR₁₀ / IR₁"),
+        Step("minimum", f"{assessment.minimum:g} for thermal class {winding.thermal_class} "
+             f"({assessment.standard}:{assessment.edition} {assessment.clause})",
+             assessment.minimum, "1"),
+    ]
+    if not assessment.meaningful:
+        return Outcome(Verdict.RECORDED, tolerance.describe(), tuple(steps),
+                       message=assessment.note)
+    return _compare(tolerance, assessment.index, steps,
+                    sensitivity=assessment.index / reading.value.value,
+                    compared="polarization index PI")
+
+
+def _absorption_ratio(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
+    assert isinstance(reading.value, Quantity)
+    sixty = context.reading_of(params["one_minute_item"], reading.element)
+    if sixty is None or not isinstance(sixty.value, Quantity):
+        return Outcome(Verdict.UNDETERMINED, "DAR recorded",
+                       message=f"needs the 1-min reading ({params['one_minute_item']})")
+    ratio = ins.dielectric_absorption_ratio(reading.value.value, sixty.value.value)
+    band = ins.interpret_dielectric_absorption_ratio(ratio)
+    steps = (
+        Step("IR after 30 s", reading.value.format(), reading.value.value, "Ω"),
+        Step("IR after 60 s", sixty.value.format(), sixty.value.value, "Ω"),
+        Step("dielectric absorption ratio DAR", f"{ratio:.2f} ({band.band})", ratio, "1",
+             formula="DAR = IR₆₀ₛ / IR₃₀ₛ"),
+    )
+    return Outcome(Verdict.RECORDED, "recorded (no standard sets a DAR minimum)", steps,
+                   message=band.note)
+
+
+# ------------------------------------------------------------------ bonding
+
+
+def _bonding_resistance(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
+    """Measured bonding resistance against the value expected from the conductor."""
+    assert isinstance(reading.value, Quantity)
+    point = context.element
+    margin = _quantity_param(params, "margin", "25 %", Dimension.RATIO)
+    ambient = context.visit.model.conditions.ambient
+    temperature = ambient.value if ambient is not None else 20.0
+    estimate = res.expected_bonding_resistance(
+        point.length.value, point.cross_section.value, point.material,
+        point.conductor_class, temperature)
+    upper = estimate.resistance * (1 + margin / 100)
+    tolerance = Tolerance(Dimension.RESISTANCE, "R", "Ω", None, upper)
+    steps = [
+        Step("conductor", f"{point.length.format()} of {point.cross_section.format()} "
+             f"{point.material}", point.length.value, "m"),
+        Step("conductor temperature", f"{temperature:g} °C "
+             + ("(visit ambient)" if ambient is not None else "(no ambient recorded: 20 °C)"),
+             temperature, "°C"),
+        Step("resistance per metre", _fmt(estimate.resistance_per_length, Dimension.RESISTANCE,
+             "mΩ") + "/m — " + estimate.basis, estimate.resistance_per_length, "Ω/m"),
+        Step("expected resistance R_exp", _fmt(estimate.resistance, Dimension.RESISTANCE, "Ω"),
+             estimate.resistance, "Ω", formula="R_exp = r₂₀ · L · (k + θ)/(k + 20 °C)"),
+        Step("allowed", f"R_exp × (1 + {margin:g} %) = {_fmt(upper, Dimension.RESISTANCE, 'Ω')}",
+             upper, "Ω", formula="R ≤ R_exp · (1 + margin)"),
+    ]
+    try:
+        table_9 = res.iec_60204_1_bonding_voltage_drop(point.cross_section.value)
+    except ComputationError:
+        table_9 = None
+    if table_9 is not None:
+        steps.append(Step("for comparison: IEC 60204-1:2005 Table 9",
+                          f"{table_9.describe()} → R ≤ "
+                          f"{_fmt(table_9.max_resistance, Dimension.RESISTANCE, 'Ω')}",
+                          table_9.max_resistance, "Ω"))
+    return _compare(tolerance, reading.value.value, steps,
+                    source_note=f"expected value from length, cross-section and material, "
+                                f"margin {margin:g} % for connections and test leads")
+
+
+# ------------------------------------------------------------------ cable and source
+
+
+def _cable_voltage_drop(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
+    """Voltage drop along the supply cable at the measured load current."""
+    assert isinstance(reading.value, Quantity)
+    limit_pct = _quantity_param(params, "limit", "5 %", Dimension.RATIO)
+    tolerance = Tolerance(Dimension.RATIO, "ΔU", "%", None, limit_pct, digits=3)
+    nameplate = context.nameplate
+    cable = nameplate.supply_cable
+    if cable is None:
+        return Outcome(Verdict.NOT_APPLICABLE, tolerance.describe(),
+                       message="no supply_cable on the nameplate")
+    if cable.material != "copper":
+        return Outcome(Verdict.UNDETERMINED, tolerance.describe(),
+                       message="the IEC 60228 table encoded here is for copper only")
+    basis = context.instrument_basis(reading)
+    if basis is not Basis.RMS:
+        return Outcome(Verdict.UNDETERMINED, tolerance.describe(),
+                       message="the drop follows the r.m.s. current; this reading is "
+                               f"{basis.phrase if basis else 'of unknown basis'}")
+    conductor_temperature = _quantity_param(params, "conductor_temperature", "70 °C",
+                                            Dimension.TEMPERATURE)
+    try:
+        row = res.iec_60228_resistance(cable.cross_section.value, cable.conductor_class)
+    except ComputationError as error:
+        return Outcome(Verdict.UNDETERMINED, tolerance.describe(), message=str(error))
+    power_factor = cable.power_factor if cable.power_factor is not None else 1.0
+    drop = sup.cable_voltage_drop(
+        reading.value.value, cable.length.value, row.resistance_per_length,
+        phases=nameplate.phases, power_factor=power_factor,
+        nominal_voltage=nameplate.rated_voltage.value, resistance_temperature_c=20.0,
+        conductor_temperature_c=conductor_temperature)
+    assert drop.fraction_of_nominal is not None
+    percent = 100 * drop.fraction_of_nominal
+    steps = (
+        Step("load current I", reading.value.format(), reading.value.value, "A"),
+        Step("cable", f"{cable.length.format()} of {cable.cross_section.format()} class "
+             f"{cable.conductor_class} copper", cable.length.value, "m"),
+        Step("conductor resistance at 20 °C", row.describe(), row.resistance_per_length, "Ω/m"),
+        Step(f"resistance at {conductor_temperature:g} °C",
+             _fmt(drop.resistance_per_length * 1000, Dimension.RESISTANCE, "Ω") + "/km",
+             drop.resistance_per_length, "Ω/m", formula="R_θ = R₂₀ · (k + θ)/(k + 20 °C)"),
+        Step("power factor cos φ", f"{power_factor:g}" + ("" if cable.power_factor else
+                                                          " (resistive: none given)"),
+             power_factor, "1"),
+        Step("voltage drop ΔU", _fmt(drop.voltage_drop, Dimension.VOLTAGE, "V"),
+             drop.voltage_drop, "V", formula=drop.model),
+        Step("of nominal", f"{percent:.3f} % of {nameplate.rated_voltage.format()}", percent,
+             "%"),
+    )
+    return _compare(tolerance, percent, steps, sensitivity=percent / reading.value.value,
+                    compared="voltage drop ΔU / U_n",
+                    source_note="recommended (informative); reactance neglected; "
+                                f"conductor at {conductor_temperature:g} °C")
+
+
+def _source_impedance(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
+    """Apparent source impedance from the no-load → under-load sag; recorded."""
+    assert isinstance(reading.value, Quantity)
+    no_load = context.reading_of(params["no_load_item"], reading.element)
+    phases = context.nameplate.phases
+    phase_names = ("L1", "L2", "L3") if phases == 3 else ("L",)
+    currents = [context.reading_of(params["current_item"], name) for name in phase_names]
+    values = [c.value.value for c in currents if c is not None and isinstance(c.value, Quantity)]
+    if no_load is None or not isinstance(no_load.value, Quantity) or not values:
+        return Outcome(Verdict.RECORDED, "recorded",
+                       message=f"needs the no-load voltage ({params['no_load_item']}) and the "
+                               f"load current ({params['current_item']}) to derive the source "
+                               "impedance")
+    current = sum(values) / len(values)
+    try:
+        impedance = sup.source_impedance_from_voltage_sag(no_load.value.value,
+                                                          reading.value.value, current, phases)
+    except ComputationError as error:
+        return Outcome(Verdict.RECORDED, "recorded", message=str(error))
+    steps = (
+        Step("no-load voltage U₀", no_load.value.format(), no_load.value.value, "V"),
+        Step("voltage under load U", reading.value.format(), reading.value.value, "V"),
+        Step("load current I" + (" (mean of the phases)" if len(values) > 1 else ""),
+             _fmt(current, Dimension.CURRENT, "A"), current, "A"),
+        Step("source impedance Z", _fmt(impedance, Dimension.RESISTANCE, "Ω"), impedance, "Ω",
+             formula="Z = (U₀ − U)/I" if phases == 1 else "Z = (U₀ − U)/(√3·I)"),
+    )
+    return Outcome(Verdict.RECORDED, "recorded (no criterion)", steps,
+                   compared="source impedance Z",
+                   message="the part of the impedance along the load's phase angle; "
+                           "a baseline for later visits")
+
+
+# ------------------------------------------------------------------ intermittent duty
+
+
+def _intermittent_duty(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
+    """Equivalent thermal current at the nameplate duty cycle against device and conductor."""
+    assert isinstance(reading.value, Quantity)
+    nameplate = context.nameplate
+    if nameplate.duty_cycle is None or nameplate.duty_cycle.value >= 100.0:
+        return Outcome(Verdict.NOT_APPLICABLE, "continuous duty",
+                       message="the nameplate duty cycle is 100 % or not given")
+    fraction = nameplate.duty_cycle.value / 100.0
+    multiplier = duty.nec_630_11_multiplier(fraction)
+    by_root = duty.equivalent_thermal_current(reading.value.value, fraction)
+    by_table = reading.value.value * multiplier.multiplier
+    limits = []
+    if nameplate.protective_device is not None:
+        limits.append(("protective device", nameplate.protective_device.rating.value))
+    cable = nameplate.supply_cable
+    if cable is not None and cable.ampacity is not None:
+        limits.append(("conductor ampacity", cable.ampacity.value))
+    steps = [
+        Step("current while on I", reading.value.format(), reading.value.value, "A"),
+        Step("duty cycle D", nameplate.duty_cycle.format(), nameplate.duty_cycle.value, "%"),
+        Step("equivalent current by √D", _fmt(by_root, Dimension.CURRENT, "A"), by_root, "A",
+             formula="I_eq = I · √D"),
+        Step("NEC multiplier", f"{multiplier.multiplier:.2f} ({multiplier.standard} "
+             f"{multiplier.clause}, row {multiplier.table_row})", multiplier.multiplier, "1"),
+        Step("equivalent current I_eq", _fmt(by_table, Dimension.CURRENT, "A"), by_table, "A",
+             formula="I_eq = I × multiplier"),
+    ]
+    if not limits:
+        return Outcome(Verdict.RECORDED, "recorded", tuple(steps),
+                       message="no protective device or conductor ampacity on the nameplate")
+    name, smallest = min(limits, key=lambda pair: pair[1])
+    for label, value in limits:
+        steps.append(Step(label, _fmt(value, Dimension.CURRENT, "A"), value, "A"))
+    tolerance = Tolerance(Dimension.CURRENT, "I_eq", "A", None, smallest)
+    return _compare(tolerance, by_table, steps, sensitivity=multiplier.multiplier,
+                    compared="equivalent current I_eq",
+                    source_note=f"compared with the {name}, the smaller rating")
+
+
+# ------------------------------------------------------------------ registry
+
+DERIVED_RULES: tuple[Rule, ...] = (
+    Rule("stored_energy_discharge", "capacitor discharge to 60 V within the time limit, "
+         "with stored energy, charge and the largest bleeder",
+         {"limit": Param("quantity", False)}, _stored_energy_discharge),
+    Rule("voltage_unbalance", "three-phase voltage unbalance by both definitions within the "
+         "limit (check the last line, L3-L1)",
+         {"limit": Param("ratio", False)}, _voltage_unbalance),
+    Rule("insulation_resistance", "insulation resistance corrected to 40 °C at least the "
+         "standard's minimum",
+         {"standard": Param("text", False, ("IEC 60204-1", "IEEE 43")),
+          "winding_kind": Param("text", False, _IEEE_KINDS),
+          "minimum": Param("quantity", False), "reduced_section": Param("flag", False)},
+         _insulation_resistance),
+    Rule("polarization_index", "IR₁₀/IR₁ at least the minimum for the thermal class",
+         {"one_minute_item": Param("checklist item")}, _polarization_index),
+    Rule("absorption_ratio", "IR₆₀ₛ/IR₃₀ₛ recorded with its trade-practice band",
+         {"one_minute_item": Param("checklist item")}, _absorption_ratio),
+    Rule("bonding_resistance", "bonding resistance within a margin of the value expected "
+         "from length, cross-section and material",
+         {"margin": Param("ratio", False)}, _bonding_resistance),
+    Rule("cable_voltage_drop", "supply cable voltage drop at the measured current within the "
+         "recommended limit",
+         {"limit": Param("ratio", False), "conductor_temperature": Param("temperature", False)},
+         _cable_voltage_drop),
+    Rule("source_impedance", "source impedance from the no-load to under-load sag (recorded)",
+         {"no_load_item": Param("checklist item"), "current_item": Param("checklist item")},
+         _source_impedance),
+    Rule("intermittent_duty", "equivalent thermal current at the duty cycle within the "
+         "protective device and the conductor", {}, _intermittent_duty),
+)
+
+for _rule in DERIVED_RULES:
+    RULES[_rule.name] = _rule
