@@ -52,7 +52,9 @@ class BuildReport:
     output: Path
     pages: int = 0
     pdfs: int = 0
-    pdf_pages: int = 0
+    pdf_pages: int = 0  # pages of the PDFs rendered in this build
+    rendered: int = 0  # PDFs rendered in this build (the others were unchanged)
+    unchanged: bool = False  # nothing changed: nothing was written
     files: list[str] = field(default_factory=list)
     result: JobResult | None = None
 
@@ -150,36 +152,9 @@ def _capture_plots(env: object, visit: VisitResult) -> dict[str, dict[str, objec
     return plots
 
 
-def _render_pages(result: JobResult, pages: list[SitePage], staging: Path) -> None:
-    env = make_environment({"job": result, "tool_version": __version__})
-    for page in pages:
-        template = env.get_template(page.template)
-        extra = {}
-        if page.template == "visit.html":
-            extra["plots"] = _capture_plots(env, page.context["visit"])  # type: ignore[arg-type]
-        html = template.render(root=page.root, **page.context, **extra)
-        target = staging / page.path
-        target.parent.mkdir(parents=True, exist_ok=True)
-        target.write_text(html, encoding="utf-8")
-
-
-def _copy_assets(staging: Path) -> None:
-    shutil.copytree(templates_dir() / "assets", staging / "assets")
-
-
-def _copy_attachments(job: Job, staging: Path) -> None:
-    for machine in job.machines:
-        for visit in machine.visits:
-            for attachment in visit.model.attachments:
-                source = (machine.folder / attachment.path).resolve()
-                target = staging / "machines" / machine.id / "attachments" / attachment.path
-                target.parent.mkdir(parents=True, exist_ok=True)
-                shutil.copyfile(source, target)
-
-
 def _write_manifest(staging: Path) -> list[str]:
     files = sorted(p.relative_to(staging).as_posix() for p in staging.rglob("*")
-                   if p.is_file() and p.name not in (MANIFEST_NAME, _MARKER))
+                   if p.is_file() and p.name not in (MANIFEST_NAME, _MARKER, _BUILD_STATE))
     lines = []
     for name in files:
         digest = hashlib.sha256((staging / name).read_bytes()).hexdigest()
@@ -239,39 +214,167 @@ def _check_output(output: Path, job_root: Path) -> None:
                              "untouched. Choose an empty or new folder")
 
 
+@dataclass(frozen=True)
+class PdfTask:
+    """One PDF to render from one staged HTML page, and the key that says when it is stale."""
+
+    html: str  # site-relative path of the page
+    pdf: str  # site-relative path of the PDF
+    key: str  # digest of everything the PDF is made from
+    sources: tuple[Path, ...] = ()  # input files the PDF depends on (e.g. embedded ones)
+
+
+_BUILD_STATE = ".acceptance-build.json"
+
+
+def _site_files(job: Job, result: JobResult, pages: list[SitePage]) -> dict[str, bytes]:
+    """Every output file but the PDFs, in memory: rendering HTML is cheap, PDFs are not."""
+    files: dict[str, bytes] = {}
+    env = make_environment({"job": result, "tool_version": __version__})
+    for page in pages:
+        template = env.get_template(page.template)
+        extra = {}
+        if page.template == "visit.html":
+            extra["plots"] = _capture_plots(env, page.context["visit"])  # type: ignore[arg-type]
+        files[page.path] = template.render(root=page.root, **page.context, **extra).encode()
+    assets = templates_dir() / "assets"
+    for path in sorted(assets.rglob("*")):
+        if path.is_file():
+            files[f"assets/{path.relative_to(assets).as_posix()}"] = path.read_bytes()
+    for machine in job.machines:
+        for visit in machine.visits:
+            for attachment in visit.model.attachments:
+                source = (machine.folder / attachment.path).resolve()
+                files[f"machines/{machine.id}/attachments/{attachment.path}"] = \
+                    source.read_bytes()
+    files["results.json"] = (json.dumps(to_json(result), ensure_ascii=False, indent=2)
+                             + "\n").encode()
+    return files
+
+
+def _pdf_tasks(pages: list[SitePage], files: dict[str, bytes]) -> list[PdfTask]:
+    shared = hashlib.sha256(f"acceptance {__version__}\n".encode())
+    for name in sorted(files):
+        if name.startswith("assets/"):
+            shared.update(name.encode() + b"\0" + hashlib.sha256(files[name]).digest())
+    tasks = []
+    for page in pages:
+        if page.pdf is None:
+            continue
+        key = shared.copy()
+        key.update(page.path.encode() + b"\0" + files[page.path])
+        tasks.append(PdfTask(page.path, page.pdf, key.hexdigest()))
+    return tasks
+
+
+def _previous_state(output: Path) -> tuple[dict[str, str], dict[str, str]]:
+    """(file → sha256 from the manifest, pdf → key) of the site at ``output``, if ours."""
+    manifest, state = output / MANIFEST_NAME, output / _BUILD_STATE
+    if not (output / _MARKER).is_file() or not manifest.is_file() or not state.is_file():
+        return {}, {}
+    digests = {}
+    for line in manifest.read_text(encoding="utf-8").splitlines():
+        digest, _, name = line.partition("  ")
+        if name:
+            digests[name] = digest
+    try:
+        keys = json.loads(state.read_text(encoding="utf-8")).get("pdfs", {})
+    except ValueError:
+        keys = {}
+    return digests, keys
+
+
+def _render_one(task: PdfTask, staging: str) -> tuple[str, int]:
+    from .rendering.pdf import render_pdf  # the PDF stack loads only when needed
+
+    root = Path(staging)
+    return task.pdf, render_pdf(root / task.html, root / task.pdf, roots=[root])
+
+
+def _render_pdfs(tasks: list[PdfTask], staging: Path, jobs: int,
+                 progress: Callable[[str], None] | None) -> int:
+    """Render ``tasks`` into ``staging``; in worker processes when ``jobs`` > 1."""
+    pages = 0
+    if jobs <= 1 or len(tasks) <= 1:
+        for number, task in enumerate(tasks, start=1):
+            pages += _render_one(task, str(staging))[1]
+            if progress:
+                progress(f"[{number}/{len(tasks)}] {task.pdf}")
+        return pages
+    import concurrent.futures
+    import multiprocessing
+
+    # forkserver: workers start from a process that has already imported WeasyPrint, and
+    # each is replaced after a few documents so the memory it held is given back.
+    context = multiprocessing.get_context("forkserver")
+    context.set_forkserver_preload(["acceptance.rendering.pdf"])
+    with concurrent.futures.ProcessPoolExecutor(
+            max_workers=jobs, mp_context=context, max_tasks_per_child=16) as pool:
+        futures = [pool.submit(_render_one, task, str(staging)) for task in tasks]
+        for number, future in enumerate(concurrent.futures.as_completed(futures), start=1):
+            name, count = future.result()
+            pages += count
+            if progress:
+                progress(f"[{number}/{len(tasks)}] {name}")
+    return pages
+
+
+def _link_or_copy(source: Path, target: Path) -> None:
+    target.parent.mkdir(parents=True, exist_ok=True)
+    try:
+        os.link(source, target)
+    except OSError:
+        shutil.copy2(source, target)
+
+
 def build_site(job_root: Path, output: Path, with_pdf: bool = True,
-               progress: Callable[[str], None] | None = None) -> BuildReport:
-    """Build the site for the job at ``job_root`` into ``output``."""
+               progress: Callable[[str], None] | None = None, jobs: int = 1) -> BuildReport:
+    """Build the site for the job at ``job_root`` into ``output``.
+
+    Only what changed is rendered again: a PDF whose page, styles and tool version are
+    unchanged is taken from the previous site, and a rebuild that changes nothing writes
+    nothing at all.
+    """
     job_root, output = Path(job_root), Path(output)
     job = load_job(job_root)  # raises InputError before anything is written
     result = evaluate_job(job)
     _check_output(output, job_root)
     report = BuildReport(output=output, result=result)
     with _build_lock(output):
+        pages = plan_site(result)
+        files = _site_files(job, result, pages)
+        tasks = _pdf_tasks(pages, files) if with_pdf else []
+        report.pages = len(pages)
+        previous_digests, previous_keys = _previous_state(output)
+        digests = {name: hashlib.sha256(data).hexdigest() for name, data in files.items()}
+        reusable = [t for t in tasks if previous_keys.get(t.pdf) == t.key
+                    and t.pdf in previous_digests and (output / t.pdf).is_file()]
+        expected = set(digests) | {t.pdf for t in tasks}
+        if (len(reusable) == len(tasks) and set(previous_digests) == expected
+                and all(previous_digests.get(n) == d for n, d in digests.items())):
+            report.unchanged = True
+            report.pdfs = len(tasks)
+            report.files = sorted(expected)
+            return report
         staging = output.with_name(f".{output.name}.staging-{os.getpid()}")
         if staging.exists():
             shutil.rmtree(staging)
         staging.mkdir(parents=True)
         try:
-            pages = plan_site(result)
-            _render_pages(result, pages, staging)
-            _copy_assets(staging)
-            _copy_attachments(job, staging)
-            (staging / "results.json").write_text(
-                json.dumps(to_json(result), ensure_ascii=False, indent=2) + "\n",
-                encoding="utf-8")
-            report.pages = len(pages)
-            if with_pdf:
-                from .rendering.pdf import render_pdf  # the PDF stack loads only when needed
-
-                for page in pages:
-                    if page.pdf is None:
-                        continue
-                    if progress:
-                        progress(page.pdf)
-                    report.pdf_pages += render_pdf(staging / page.path, staging / page.pdf,
-                                                   roots=[staging])
-                    report.pdfs += 1
+            for name, data in files.items():
+                target = staging / name
+                target.parent.mkdir(parents=True, exist_ok=True)
+                target.write_bytes(data)
+            for task in reusable:
+                _link_or_copy(output / task.pdf, staging / task.pdf)
+            fresh = [t for t in tasks if t not in reusable]
+            report.pdf_pages = _render_pdfs(fresh, staging, jobs, progress)
+            report.pdfs = len(tasks)
+            report.rendered = len(fresh)
+            (staging / _BUILD_STATE).write_text(
+                json.dumps({"tool_version": __version__,
+                            "pdfs": {t.pdf: t.key for t in tasks}}, indent=1, sort_keys=True)
+                + "\n", encoding="utf-8")
             (staging / _MARKER).write_text(f"acceptance {__version__}\n", encoding="utf-8")
             report.files = _write_manifest(staging)
             _exchange(staging, output)

@@ -201,8 +201,14 @@ def test_failed_build_leaves_the_previous_site_intact(demo_site, tmp_path, monke
         return real_render(*args, **kwargs)
 
     monkeypatch.setattr(acceptance.rendering.pdf, "render_pdf", failing_render)
+    # A changed title changes every page, so every PDF must be rendered again.
+    job = tmp_path / "job"
+    shutil.copytree(DEMO_JOB, job)
+    job_file = job / "job.yaml"
+    job_file.write_text(job_file.read_text(encoding="utf-8").replace(
+        "title: Grinding", "title: Revised grinding", 1), encoding="utf-8")
     with pytest.raises(RuntimeError, match="renderer stopped halfway"):
-        build_site(DEMO_JOB, previous)
+        build_site(job, previous)
     assert len(calls) == 2
     assert snapshot(previous) == before
     assert [p.name for p in tmp_path.iterdir() if "staging" in p.name] == []

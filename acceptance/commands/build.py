@@ -3,9 +3,11 @@
 from __future__ import annotations
 
 import argparse
+import os
 import sys
 from pathlib import Path
 
+from ..errors import BuildError
 from ..pipeline import build_site
 
 
@@ -14,6 +16,8 @@ def register(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("-o", "--output", type=Path, required=True,
                         help="folder to write the site into (replaced atomically)")
     parser.add_argument("--no-pdf", action="store_true", help="write the HTML site only")
+    parser.add_argument("-j", "--jobs", type=int, default=None,
+                        help="PDF worker processes (default: the number of CPUs)")
     parser.add_argument("-q", "--quiet", action="store_true", help="print nothing on success")
 
 
@@ -21,13 +25,22 @@ def run(args: argparse.Namespace) -> int:
     interactive = sys.stderr.isatty() and not args.quiet
 
     def progress(name: str) -> None:
-        if interactive:
-            print(f"  rendering {name}", file=sys.stderr)
+        print(f"\r\033[K  rendering {name}", end="", file=sys.stderr, flush=True)
 
-    report = build_site(args.job, args.output, with_pdf=not args.no_pdf, progress=progress)
+    jobs = args.jobs if args.jobs is not None else max(1, len(os.sched_getaffinity(0)))
+    if jobs < 1:
+        raise BuildError("--jobs must be 1 or more")
+    report = build_site(args.job, args.output, with_pdf=not args.no_pdf,
+                        progress=progress if interactive else None, jobs=jobs)
+    if interactive and report.rendered:
+        print(file=sys.stderr)
     if not args.quiet:
         index = (report.output / "index.html").resolve()
-        print(f"wrote {report.pages} pages, {report.pdfs} PDF records "
-              f"({report.pdf_pages} PDF pages) and results.json to {report.output}")
+        if report.unchanged:
+            print(f"{report.output} is up to date; nothing was written")
+        else:
+            print(f"wrote {report.pages} pages and results.json; {report.rendered} of "
+                  f"{report.pdfs} PDF records rendered ({report.pdf_pages} pages), the rest "
+                  f"unchanged; to {report.output}")
         print(f"open {index.as_uri()}")
     return 0
