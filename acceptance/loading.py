@@ -92,6 +92,10 @@ class LoadedVisit:
     document: Document
     model: VisitFile
     readings: dict[tuple[str, str], list[Reading]] = field(default_factory=dict)
+    # Sign-off records (integrity.SignatureFile), kept outside the files they cover.
+    signatures: list[Any] = field(default_factory=list)
+    # Readings after adjustment or repair on the same visit (VisitFile.as_left).
+    as_left: dict[tuple[str, str], list[Reading]] = field(default_factory=dict)
 
 
 @dataclass
@@ -286,7 +290,68 @@ def _load_checklists(root: Path, problems: list[Problem]) -> dict[str, LoadedChe
                         document.problem(("items", index, "also_record", name), str(error)))
         _check_rules(model, document, problems)
         result[model.checklist] = LoadedChecklist(model, document, origin)
+    for loaded in result.values():
+        _check_compare_specs(loaded, result, problems)
     return result
+
+
+def _voltage_item_problem(key: str, checklists: dict[str, LoadedChecklist]) -> str | None:
+    """Why ``key`` cannot name the supply voltage a current is normalised to, or None."""
+    checklist_id, _, item_id = key.partition(".")
+    loaded = checklists.get(checklist_id)
+    target = loaded.item(item_id) if loaded else None
+    if target is None:
+        known = [f"{c}.{i.id}" for c, lc in checklists.items() for i in lc.model.items
+                 if i.unit and _is_voltage(i.unit)]
+        return f"no checklist item '{key}'{_suggest(key, known)}"
+    if not (target.unit and _is_voltage(target.unit)):
+        return f"'{key}' does not record a voltage"
+    return None
+
+
+def _is_voltage(unit: str) -> bool:
+    try:
+        return unit_dimension(unit) is Dimension.VOLTAGE
+    except UnitError:
+        return False
+
+
+def _check_compare_specs(loaded: LoadedChecklist, checklists: dict[str, LoadedChecklist],
+                         problems: list[Problem]) -> None:
+    for index, item in enumerate(loaded.model.items):
+        spec = item.compare
+        if spec is None:
+            continue
+        path: KeyPath = ("items", index, "compare")
+        if item.record != "quantity":
+            problems.append(loaded.document.problem(
+                path, "only a quantity item can be compared between visits"))
+            continue
+        if spec.check is not None and spec.check not in [c.id for c in item.checks]:
+            problems.append(loaded.document.problem(
+                (*path, "check"), f"item '{item.id}' has no check '{spec.check}'"
+                                  f"{_suggest(spec.check, [c.id for c in item.checks])}"))
+        if spec.quantity == "corrected" and not item.checks:
+            problems.append(loaded.document.problem(
+                (*path, "quantity"), "'corrected' needs a check that computes the value; "
+                                     "use quantity: reading"))
+        if spec.quantity == "reading" and spec.watch.dimension is not Dimension.RATIO:
+            try:
+                dimension = unit_dimension(item.unit or "")
+            except UnitError:
+                dimension = None
+            allowed = (Dimension.TEMPERATURE_DIFFERENCE if dimension is Dimension.TEMPERATURE
+                       else dimension)
+            if spec.watch.dimension is not allowed:
+                problems.append(loaded.document.problem(
+                    (*path, "watch"), f"a change of this reading is a percentage or a "
+                                      f"{allowed.value if allowed else 'quantity'}, not "
+                                      f"{spec.watch.text!r}"))
+        if spec.normalise_to_voltage is not None:
+            message = _voltage_item_problem(spec.normalise_to_voltage, checklists)
+            if message:
+                problems.append(loaded.document.problem((*path, "normalise_to_voltage"),
+                                                        message))
 
 
 def _check_rules(model: Checklist, document: Document, problems: list[Problem]) -> None:
@@ -472,34 +537,36 @@ def _load_capture(raw: Any, path: KeyPath, visit: LoadedVisit, problems: list[Pr
 
 def _parse_readings(visit: LoadedVisit, machine: LoadedMachine,
                     checklists: dict[str, LoadedChecklist], instruments: dict[str, Instrument],
-                    problems: list[Problem]) -> None:
+                    problems: list[Problem], section: str = "readings") -> None:
     document = visit.document
+    target = visit.readings if section == "readings" else visit.as_left
     applicable = machine.model.checklists
     nameplate = machine.model.nameplate
     survey_ids = [p.id for p in machine.model.survey_points]
     bonding_ids = [p.id for p in machine.model.bonding_points]
-    if visit.model.default_instrument and visit.model.default_instrument not in instruments:
+    if (section == "readings" and visit.model.default_instrument
+            and visit.model.default_instrument not in instruments):
         problems.append(document.problem(
             ("default_instrument",),
             f"instrument '{visit.model.default_instrument}' is not in instruments.yaml"
             f"{_suggest(visit.model.default_instrument, sorted(instruments))}"))
-    for checklist_id, items in visit.model.readings.items():
+    for checklist_id, items in getattr(visit.model, section).items():
         if checklist_id not in applicable:
             hint = _suggest(checklist_id, applicable)
             problems.append(document.problem(
-                ("readings", checklist_id),
+                (section, checklist_id),
                 f"checklist '{checklist_id}' is not listed for this machine{hint}"))
             continue
         loaded = checklists.get(checklist_id)
         if loaded is None:
             continue  # reported against machine.yaml
         if not isinstance(items, dict):
-            problems.append(document.problem(("readings", checklist_id),
+            problems.append(document.problem((section, checklist_id),
                                              "expected a mapping of item id → reading"))
             continue
         for item_id, raw in items.items():
             item = loaded.item(item_id)
-            path: KeyPath = ("readings", checklist_id, item_id)
+            path: KeyPath = (section, checklist_id, item_id)
             if item is None:
                 known = [i.id for i in loaded.model.items]
                 problems.append(document.problem(
@@ -531,7 +598,7 @@ def _parse_readings(visit: LoadedVisit, machine: LoadedMachine,
                                              (*path, element), visit, instruments, problems)
                     if reading:
                         parsed.append(reading)
-            visit.readings[(checklist_id, item_id)] = parsed
+            target[(checklist_id, item_id)] = parsed
 
 
 # ------------------------------------------------------------------ the job
@@ -695,11 +762,39 @@ def _load_machines(root: Path, checklists: dict[str, LoadedChecklist],
             visit = LoadedVisit(id=visit_path.stem, machine_id=machine.id, path=visit_path,
                                 document=visit_document, model=visit_model)
             _parse_readings(visit, machine, checklists, instruments, problems)
+            _parse_readings(visit, machine, checklists, instruments, problems, "as_left")
+            _check_parts(visit, machine, checklists, problems)
             _check_attachments(visit, machine, problems)
             machine.visits.append(visit)
+        _load_signatures(machine, root, problems)
         machine.visits.sort(key=lambda v: (v.model.date, v.id))
+        _check_baseline(machine, problems)
+        _check_compare_adjustments(machine, checklists, problems)
         machines.append(machine)
     return machines
+
+
+def _load_signatures(machine: LoadedMachine, root: Path, problems: list[Problem]) -> None:
+    """Read ``signatures/<visit>.yaml`` of each visit; what they cover is checked later."""
+    from .integrity import SIGNATURES_DIR, SignatureFile
+
+    folder = machine.folder / SIGNATURES_DIR
+    if not folder.is_dir():
+        return
+    visits = {v.id: v for v in machine.visits}
+    for path in sorted(folder.glob("*.yaml")):
+        document = _load_document(path, root, problems)
+        if document is None:
+            continue
+        visit = visits.get(path.stem)
+        if visit is None:
+            problems.append(document.problem((), f"a signature record for visit '{path.stem}', "
+                                                 f"which machine '{machine.id}' does not have"
+                                                 f"{_suggest(path.stem, sorted(visits))}"))
+            continue
+        record = _validate(SignatureFile, document, problems)
+        if record is not None:
+            visit.signatures.append(record)
 
 
 def _check_machine(machine: LoadedMachine, checklists: dict[str, LoadedChecklist],
@@ -728,6 +823,67 @@ def _check_machine(machine: LoadedMachine, checklists: dict[str, LoadedChecklist
                 ("nameplate", "capacitors", index, "tolerance"), error))
     if nameplate.phases == 1 and nameplate.frequency is None and nameplate.rated_voltage:
         pass  # a d.c. supply: frequency items are not applicable
+
+
+def _check_baseline(machine: LoadedMachine, problems: list[Problem]) -> None:
+    named = machine.model.baseline
+    ids = [visit.id for visit in machine.visits]
+    if named is not None and named not in ids:
+        problems.append(machine.document.problem(
+            ("baseline",), f"no visit '{named}' in {machine.id}/visits/{_suggest(named, ids)}"))
+
+
+def _item_keys(machine: LoadedMachine, checklists: dict[str, LoadedChecklist]) -> list[str]:
+    return [f"{c}.{i.id}" for c in machine.model.checklists if c in checklists
+            for i in checklists[c].model.items]
+
+
+def _check_compare_adjustments(machine: LoadedMachine, checklists: dict[str, LoadedChecklist],
+                               problems: list[Problem]) -> None:
+    keys = _item_keys(machine, checklists)
+    for key, adjustment in machine.model.compare.items():
+        path: KeyPath = ("compare", key)
+        checklist_id, _, item_id = key.partition(".")
+        item = checklists[checklist_id].item(item_id) if key in keys else None
+        if item is None:
+            problems.append(machine.document.problem(
+                path, f"no checklist item '{key}' for this machine{_suggest(key, keys)}"))
+            continue
+        if item.compare is None:
+            problems.append(machine.document.problem(
+                path, f"'{key}' declares no comparison in its checklist; nothing to adjust"))
+            continue
+        watch = adjustment.watch or item.compare.watch
+        act = adjustment.act or item.compare.act
+        if watch.dimension is not act.dimension or not 0 < watch.value <= act.value:
+            problems.append(machine.document.problem(
+                path, f"need 0 < watch ≤ act of one kind; got watch {watch.text}, "
+                      f"act {act.text}"))
+        if adjustment.normalise_to_voltage is not None:
+            message = _voltage_item_problem(adjustment.normalise_to_voltage, checklists)
+            if message:
+                problems.append(machine.document.problem((*path, "normalise_to_voltage"),
+                                                         message))
+
+
+def _check_parts(visit: LoadedVisit, machine: LoadedMachine,
+                 checklists: dict[str, LoadedChecklist], problems: list[Problem]) -> None:
+    nameplate = machine.model.nameplate
+    elements = [*(w.id for w in nameplate.windings), *(c.id for c in nameplate.capacitors),
+                *(p.id for p in machine.model.survey_points),
+                *(p.id for p in machine.model.bonding_points)]
+    keys = _item_keys(machine, checklists)
+    for index, part in enumerate(visit.model.parts_replaced):
+        path: KeyPath = ("parts_replaced", index)
+        if part.element is not None and part.element not in elements:
+            problems.append(visit.document.problem(
+                (*path, "element"), f"'{part.element}' is not an element of this machine"
+                                    f"{_suggest(part.element, elements)}"))
+        for number, key in enumerate(part.items):
+            if key not in keys:
+                problems.append(visit.document.problem(
+                    (*path, "items", number),
+                    f"no checklist item '{key}' for this machine{_suggest(key, keys)}"))
 
 
 def _check_attachments(visit: LoadedVisit, machine: LoadedMachine,

@@ -14,13 +14,20 @@ import re
 from enum import Enum
 from typing import Annotated, Any, Literal
 
-from pydantic import BaseModel, ConfigDict, Field, PlainValidator, WithJsonSchema
+from pydantic import (
+    BaseModel,
+    ConfigDict,
+    Field,
+    PlainValidator,
+    WithJsonSchema,
+    model_validator,
+)
 
 from .units import Basis, Dimension, Quantity, UnitError, parse_quantity
 
 __all__ = [
     "AccuracyEntry", "BondingPoint", "CapacitorSpec", "CheckSpec", "Checklist", "ChecklistItem",
-    "Conductor",
+    "CompareAdjustment", "CompareSpec", "Conductor", "PartReplaced",
     "Instrument",
     "InstrumentRegister", "JobFile", "LimitOverride", "MachineFile", "Nameplate",
     "ProtectiveDevice", "SignOff", "Source", "StandardInForce", "SupplyCable", "SurveyPoint",
@@ -133,6 +140,51 @@ class CheckSpec(_Strict):
                           "that needs the readings of every element, such as voltage unbalance")
 
 
+AnyQuantity = _quantity(*Dimension, example="5 %")
+
+
+class CompareSpec(_Strict):
+    """How a later visit's value of an item is compared with the machine's baseline.
+
+    ``watch`` and ``act`` are changes from the baseline: a percentage of the baseline value
+    (``5 %``) or an amount in the compared value's own unit (``5 K``). A change of at least
+    ``watch`` is classed *watch*, of at least ``act`` *act*, anything smaller *steady*.
+    """
+
+    quantity: Literal["corrected", "reading"] = Field(
+        "reading", description="reading: the value as read; corrected: the value the check "
+                               "compared (e.g. R at the reference temperature, R at 40 °C)")
+    check: Identifier | None = Field(
+        None, description="the check whose compared value is used (default: the first that "
+                          "has one)")
+    step: str | None = Field(
+        None, description="compare the value of this step of the check, by its label "
+                          "(e.g. 'rise over ambient')")
+    watch: AnyQuantity = Field(description="change to watch, e.g. '5 %' or '5 K'")
+    act: AnyQuantity = Field(description="change to act on, e.g. '10 %' or '10 K'")
+    direction: Literal["both", "up", "down"] = Field(
+        "both", description="which changes count: up, down or both")
+    note_up: str | None = Field(None, description="what a rise suggests")
+    note_down: str | None = Field(None, description="what a fall suggests")
+    normalise_to_voltage: str | None = Field(
+        None, description="checklist.item of the supply voltage (e.g. "
+                          "supply.voltage_under_load): the current is scaled by "
+                          "U_baseline / U_visit; only for a resistive or constant-impedance load")
+    source: Source = Field(
+        default_factory=lambda: Source(kind="common practice"),
+        description="where the watch and act thresholds come from")
+
+    @model_validator(mode="after")
+    def _thresholds(self) -> CompareSpec:
+        if self.watch.dimension is not self.act.dimension:
+            raise ValueError(f"watch ({self.watch.text}) and act ({self.act.text}) must be "
+                             "of the same kind: both percentages or both in one unit")
+        if self.watch.value <= 0 or self.act.value < self.watch.value:
+            raise ValueError(f"need 0 < watch ≤ act; got watch {self.watch.text}, "
+                             f"act {self.act.text}")
+        return self
+
+
 class ChecklistItem(_Strict):
     id: Identifier
     title: str = Field(description="what to record")
@@ -153,6 +205,8 @@ class ChecklistItem(_Strict):
                           "rated_current", "protective_device", "stored_energy",
                           "bonding_points", "intermittent_duty", "supply_cable"] = "always"
     checks: list[CheckSpec] = Field(default_factory=list)
+    compare: CompareSpec | None = Field(
+        None, description="how later visits are compared with the baseline")
     guidance: str | None = None
     caution: str | None = None
 
@@ -343,6 +397,18 @@ class Nameplate(_Strict):
         return Basis(self.rated_current_basis)
 
 
+class CompareAdjustment(_Strict):
+    """This machine's change to a checklist item's comparison, e.g. for its kind of load."""
+
+    watch: AnyQuantity | None = None
+    act: AnyQuantity | None = None
+    direction: Literal["both", "up", "down"] | None = None
+    normalise_to_voltage: str | None = Field(
+        None, description="checklist.item of the supply voltage; only for a resistive or "
+                          "constant-impedance load")
+    reason: str = Field(description="why this machine differs from the checklist's default")
+
+
 class MachineFile(_Strict):
     """``machines/<id>/machine.yaml``: what is installed and what it should be."""
 
@@ -357,6 +423,12 @@ class MachineFile(_Strict):
     bonding_points: list[BondingPoint] = Field(
         default_factory=list, description="points of the protective bonding continuity test")
     checklists: list[Identifier] = Field(description="checklists that apply to this machine")
+    baseline: str | None = Field(
+        None, description="id of the visit later visits are compared with (its file name "
+                          "without .yaml); default: the earliest commissioning visit")
+    compare: dict[str, CompareAdjustment] = Field(
+        default_factory=dict,
+        description="checklist.item → this machine's change to the item's comparison")
     notes: str | None = None
 
 
@@ -387,6 +459,23 @@ class Conditions(_Strict):
     note: str | None = None
 
 
+class PartReplaced(_Strict):
+    """A part replaced on a visit: what, why, and what came out and went in."""
+
+    part: str = Field(description="e.g. 'run capacitor', 'line contactor K1'")
+    reason: str
+    old: str | None = Field(None, description="the part taken out, free text or a value "
+                                              "such as '26.1 µF'")
+    new: str | None = Field(None, description="the part fitted, free text or a value")
+    element: Identifier | None = Field(
+        None, description="the machine element the part is (a winding or capacitor id), "
+                          "when it is one")
+    items: list[str] = Field(
+        default_factory=list,
+        description="checklist.item keys whose readings show the part's behaviour "
+                    "(default: every item of its element)")
+
+
 class VisitFile(_Strict):
     """``machines/<id>/visits/<visit>.yaml``: one test visit with its readings."""
 
@@ -399,6 +488,12 @@ class VisitFile(_Strict):
         default_factory=dict,
         description="checklist → item → reading; a reading is '230 V', yes/no, "
                     "{value, instrument, note, ...} or element → reading")
+    as_left: dict[str, dict[str, Any]] = Field(
+        default_factory=dict,
+        description="readings after adjustment or repair on this visit, the same shape as "
+                    "readings (which then hold the as-found values); later visits are "
+                    "compared with the as-left values")
+    parts_replaced: list[PartReplaced] = Field(default_factory=list)
     notes: str | None = Field(None, description="Markdown")
     attachments: list[Attachment] = Field(default_factory=list)
     sign_off: list[SignOff] = Field(default_factory=list)

@@ -13,8 +13,9 @@ from enum import Enum
 from typing import Any
 
 __all__ = [
-    "RESULTS_SCHEMA", "CheckResult", "ElementResult", "ItemResult", "ChecklistResult",
-    "MachineResult", "JobResult", "Step", "Verdict", "VisitResult", "VisitState", "worst",
+    "RESULTS_SCHEMA", "Change", "ChangeClass", "CheckResult", "ElementResult", "ItemResult",
+    "ChecklistResult", "MachineResult", "JobResult", "PartReplacement", "Step", "Verdict",
+    "VisitResult", "VisitState", "worst",
 ]
 
 RESULTS_SCHEMA = "acceptance-results/1"
@@ -95,6 +96,12 @@ class CheckResult:
     compared: str | None = None  # which value was compared, when not the reading itself
     decision: str | None = None  # the decision rule applied and the guard band used
     conformance: float | None = None  # JCGM 106 probability of conformity, near a limit
+    # The value compared with the limit (e.g. R at 20 °C) and the limits, in base units:
+    # what later visits compare and what a trend plot draws as the limit band.
+    compared_value: float | None = None
+    compared_unit: str = ""
+    limit_lower: float | None = None
+    limit_upper: float | None = None
 
 
 @dataclass(frozen=True)
@@ -113,6 +120,8 @@ class ElementResult:
     uncertainty: str | None = None  # "U = 1.6 V (k = 2), from …", or why it is unknown
     findings: tuple[str, ...] = ()  # about the instrument: category, response, calibration
     capture: Any = None  # CaptureAnalysis of an attached scope capture (JSON: its own schema)
+    # Basis of the reading as written ('RMS', 'avg', 'd.c.') or else from the instrument.
+    effective_basis: str | None = None
 
 
 @dataclass(frozen=True)
@@ -127,6 +136,7 @@ class ItemResult:
     elements: tuple[ElementResult, ...]
     guidance: str | None
     caution: str | None
+    compare: Any = None  # history.CompareRule: how later visits compare with the baseline
 
     @property
     def key(self) -> str:
@@ -144,6 +154,57 @@ class ChecklistResult:
     items: tuple[ItemResult, ...]
 
 
+class ChangeClass(str, Enum):
+    """How far a value has moved from the baseline, against the item's thresholds."""
+
+    STEADY = "steady"
+    WATCH = "watch"
+    ACT = "act"
+    NOT_COMPARABLE = "not comparable"
+
+    @property
+    def slug(self) -> str:
+        return self.value.replace(" ", "-")
+
+
+@dataclass(frozen=True)
+class Change:
+    """One value of one item and element, baseline against a later visit."""
+
+    item: str  # checklist.item
+    title: str
+    element: str | None
+    quantity: str  # what was compared, e.g. "R at 20 °C" or "reading (RMS)"
+    unit: str  # base unit of the values
+    baseline_value: float | None
+    value: float | None
+    baseline_text: str
+    text: str
+    change: float | None  # in change_unit: % of the baseline, or an amount in unit
+    change_unit: str
+    change_text: str
+    classification: ChangeClass
+    thresholds: str  # e.g. "watch ≥ 5 %, act ≥ 10 %, either direction"
+    source: str
+    note: str | None = None  # what the change suggests (the item's note_up / note_down)
+    adjustments: tuple[str, ...] = ()  # corrections, conversions and normalisation, in words
+    reason: str | None = None  # why the values are not comparable
+
+
+@dataclass(frozen=True)
+class PartReplacement:
+    """A part replaced on a visit, with its element's values before and after the swap."""
+
+    part: str
+    reason: str
+    old: str | None
+    new: str | None
+    element: str | None
+    items: tuple[str, ...]
+    before: str | None = None  # "as found" or the id of the visit before
+    behaviour: tuple[Change, ...] = ()
+
+
 @dataclass(frozen=True)
 class VisitResult:
     id: str
@@ -159,6 +220,11 @@ class VisitResult:
     attachments: tuple[tuple[str, str], ...]
     sign_off: tuple[dict[str, str], ...]
     source_file: str
+    baseline: str | None = None  # id of the visit this one is compared with
+    changes: tuple[Change, ...] = ()
+    as_left: tuple[ItemResult, ...] = ()  # items re-measured after adjustment or repair
+    as_found_state: VisitState | None = None  # state before adjustment, when as_left exists
+    parts_replaced: tuple[PartReplacement, ...] = ()
 
     @property
     def items(self) -> list[ItemResult]:
@@ -173,6 +239,7 @@ class MachineResult:
     area: str | None
     nameplate: dict[str, Any]
     visits: tuple[VisitResult, ...]
+    baseline: str | None = None  # id of the visit later visits are compared with
 
     @property
     def latest(self) -> VisitResult | None:

@@ -6,9 +6,11 @@ call :func:`evaluate_job` and get the same verdicts for the same inputs.
 
 from __future__ import annotations
 
+import dataclasses
 from collections import Counter
 
 from .. import __version__
+from ..history import compare_rule, compare_visits, part_behaviour, select_baseline
 from ..loading import Job, LoadedChecklist, LoadedMachine, LoadedVisit, Reading, element_names
 from ..model import ChecklistItem, LimitOverride
 from ..results import (
@@ -18,12 +20,13 @@ from ..results import (
     ItemResult,
     JobResult,
     MachineResult,
+    PartReplacement,
     Verdict,
     VisitResult,
     VisitState,
     worst,
 )
-from ..units import Quantity
+from ..units import Dimension, Quantity
 from . import derived  # noqa: F401 - registers the derived rules into RULES
 from .instruments import (
     ReadingUncertainty,
@@ -32,7 +35,7 @@ from .instruments import (
     instrument_findings,
     reading_uncertainty,
 )
-from .rules import RULES, Context
+from .rules import RULES, Context, Outcome
 
 __all__ = ["evaluate_job", "visit_state"]
 
@@ -110,11 +113,16 @@ def _evaluate_element(item: ChecklistItem, checklist: LoadedChecklist, element: 
                             "no instrument named", job.model.decision_rule, instrument,
                             visit.model.date, item)
         message = "; ".join(m for m in (outcome.message, assessment.message) if m) or None
+        compared_value, compared_unit = _compared(outcome)
+        tolerance = outcome.tolerance
         checks.append(CheckResult(
             id=spec.id, rule=spec.rule, verdict=assessment.verdict, limit=outcome.limit,
             source=source, steps=outcome.steps, message=message,
             override=override.reason if override else None, compared=outcome.compared,
-            decision=assessment.decision, conformance=assessment.conformance))
+            decision=assessment.decision, conformance=assessment.conformance,
+            compared_value=compared_value, compared_unit=compared_unit,
+            limit_lower=tolerance.lower if tolerance else None,
+            limit_upper=tolerance.upper if tolerance else None))
     verdict = worst([c.verdict for c in checks], empty=Verdict.RECORDED)
     value = reading.value
     if isinstance(value, Quantity):
@@ -129,7 +137,27 @@ def _evaluate_element(item: ChecklistItem, checklist: LoadedChecklist, element: 
                          extras, reading.note, tuple(checks), reading.line,
                          uncertainty=(uncertainty.phrase if isinstance(uncertainty,
                                       ReadingUncertainty) else uncertainty),
-                         findings=tuple(findings), capture=reading.capture)
+                         findings=tuple(findings), capture=reading.capture,
+                         effective_basis=_basis(context, reading))
+
+
+def _compared(outcome: Outcome) -> tuple[float | None, str]:
+    """The value a check compared with its limit, and its base unit, for later visits."""
+    if outcome.compared_value is not None and outcome.tolerance is not None:
+        return outcome.compared_value, Quantity(0.0, outcome.tolerance.dimension).base_unit
+    # A check with no limit (e.g. no nameplate value) still shows the value it would compare.
+    step = next((s for s in outcome.steps if outcome.compared and s.label == outcome.compared
+                 and s.value is not None), None)
+    return (step.value, step.unit) if step else (None, "")
+
+
+def _basis(context: Context, reading: Reading) -> str | None:
+    # A basis says how an a.c. voltage or current was read; other quantities have none.
+    if not isinstance(reading.value, Quantity) or reading.value.dimension not in (
+            Dimension.VOLTAGE, Dimension.CURRENT):
+        return None
+    basis = context.instrument_basis(reading)
+    return basis.value if basis else None
 
 
 def _evaluate_item(item: ChecklistItem, checklist: LoadedChecklist, job: Job,
@@ -147,10 +175,13 @@ def _evaluate_item(item: ChecklistItem, checklist: LoadedChecklist, job: Job,
             _evaluate_element(item, checklist, name, by_element.get(name), job, machine, visit)
             for name in names)
         verdict = worst([e.verdict for e in elements], empty=Verdict.NOT_APPLICABLE)
+    rule = None
+    if item.compare is not None:
+        rule = compare_rule(item.compare, machine.model.compare.get(f"{checklist.id}.{item.id}"))
     return ItemResult(checklist=checklist.id, id=item.id, title=item.title, unit=item.unit,
                       safety_critical=item.safety_critical, required=item.required,
                       verdict=verdict, elements=elements, guidance=item.guidance,
-                      caution=item.caution)
+                      caution=item.caution, compare=rule)
 
 
 def visit_state(items: list[ItemResult]) -> VisitState:
@@ -174,7 +205,33 @@ def visit_state(items: list[ItemResult]) -> VisitState:
     return VisitState.PASS
 
 
+def _as_left_view(visit: LoadedVisit) -> LoadedVisit:
+    """The visit as left: each re-measured element's as-left reading in place of as-found."""
+    merged = dict(visit.readings)
+    for key, readings in visit.as_left.items():
+        replaced = {r.element for r in readings}
+        merged[key] = [r for r in visit.readings.get(key, []) if r.element not in replaced]
+        merged[key] += readings
+    return dataclasses.replace(visit, readings=merged, as_left={})
+
+
 def _evaluate_visit(visit: LoadedVisit, job: Job, machine: LoadedMachine) -> VisitResult:
+    found = _evaluate_readings(visit, job, machine)
+    if not visit.as_left:
+        return found
+    left = _evaluate_readings(_as_left_view(visit), job, machine)
+    # The record keeps every as-found item and shows, beside it, each element re-measured.
+    re_measured = {key: {r.element for r in readings} for key, readings in
+                   visit.as_left.items()}
+    as_left = tuple(
+        dataclasses.replace(item, elements=tuple(e for e in item.elements
+                                                 if e.element in re_measured[key]))
+        for item in left.items if (key := (item.checklist, item.id)) in re_measured)
+    return dataclasses.replace(found, state=left.state, as_found_state=found.state,
+                               as_left=as_left)
+
+
+def _evaluate_readings(visit: LoadedVisit, job: Job, machine: LoadedMachine) -> VisitResult:
     checklists = []
     for checklist_id in machine.model.checklists:
         loaded = job.checklists[checklist_id]
@@ -201,7 +258,29 @@ def _evaluate_visit(visit: LoadedVisit, job: Job, machine: LoadedMachine) -> Vis
         attachments=tuple((a.path, a.title) for a in visit.model.attachments),
         sign_off=tuple({"name": s.name, "role": s.role, "date": s.date.isoformat(),
                         "statement": s.statement or ""} for s in visit.model.sign_off),
-        source_file=visit.document.display_name)
+        source_file=visit.document.display_name,
+        parts_replaced=tuple(PartReplacement(
+            part=p.part, reason=p.reason, old=p.old, new=p.new, element=p.element,
+            items=tuple(p.items)) for p in visit.model.parts_replaced))
+
+
+def _with_history(machine: MachineResult, named: str | None) -> MachineResult:
+    """Each visit after the baseline with its changes; parts replaced with before and after."""
+    baseline = select_baseline(machine.visits, named)
+    if baseline is None:
+        return machine
+    machine = dataclasses.replace(machine, baseline=baseline)
+    order = [v.id for v in machine.visits]
+    visits = []
+    for visit in machine.visits:
+        if order.index(visit.id) > order.index(baseline):
+            visit = dataclasses.replace(
+                visit, baseline=baseline,
+                changes=compare_visits(machine, baseline, visit).changes)
+        if visit.parts_replaced:
+            visit = dataclasses.replace(visit, parts_replaced=part_behaviour(machine, visit))
+        visits.append(visit)
+    return dataclasses.replace(machine, visits=tuple(visits))
 
 
 def _nameplate_summary(machine: LoadedMachine) -> dict[str, object]:
@@ -245,9 +324,10 @@ def _nameplate_summary(machine: LoadedMachine) -> dict[str, object]:
 def evaluate_job(job: Job) -> JobResult:
     """Evaluate every visit of every machine. Pure and deterministic."""
     machines = tuple(
-        MachineResult(id=m.id, name=m.model.name, kind=m.model.kind, area=m.model.area,
-                      nameplate=_nameplate_summary(m),
-                      visits=tuple(_evaluate_visit(v, job, m) for v in m.visits))
+        _with_history(MachineResult(id=m.id, name=m.model.name, kind=m.model.kind,
+                                    area=m.model.area, nameplate=_nameplate_summary(m),
+                                    visits=tuple(_evaluate_visit(v, job, m) for v in m.visits)),
+                      m.model.baseline)
         for m in job.machines)
     instruments = tuple(
         {"id": i.id, "kind": i.kind, "model": i.model or "", "serial": i.serial or "",
