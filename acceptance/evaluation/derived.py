@@ -22,7 +22,7 @@ from ..computations import supply as sup
 from ..results import Step, Verdict
 from ..tolerance import Tolerance
 from ..units import Basis, Dimension, Quantity, format_value, parse_quantity
-from .rules import RULES, Context, Outcome, Param, Rule, _compare
+from .rules import RULES, Context, Outcome, Param, Rule, _captured_current, _compare
 
 if TYPE_CHECKING:
     from ..loading import Reading
@@ -307,7 +307,13 @@ def _cable_voltage_drop(reading: Reading, context: Context, params: dict[str, An
         return Outcome(Verdict.UNDETERMINED, tolerance.describe(),
                        message="the IEC 60228 table encoded here is for copper only")
     basis = context.instrument_basis(reading)
-    if basis is not Basis.RMS:
+    current, sensitivity_scale, current_label = reading.value.value, 1.0, "load current I"
+    captured = _captured_current(reading)
+    if basis is not Basis.RMS and captured is not None:
+        # The capture gives the true RMS current that heats the cable and drops the voltage.
+        current, sensitivity_scale = captured.rms, 0.0
+        current_label = "load current I (true RMS from the capture)"
+    elif basis is not Basis.RMS:
         return Outcome(Verdict.UNDETERMINED, tolerance.describe(),
                        message="the drop follows the r.m.s. current; this reading is "
                                f"{basis.phrase if basis else 'of unknown basis'}")
@@ -319,14 +325,14 @@ def _cable_voltage_drop(reading: Reading, context: Context, params: dict[str, An
         return Outcome(Verdict.UNDETERMINED, tolerance.describe(), message=str(error))
     power_factor = cable.power_factor if cable.power_factor is not None else 1.0
     drop = sup.cable_voltage_drop(
-        reading.value.value, cable.length.value, row.resistance_per_length,
+        current, cable.length.value, row.resistance_per_length,
         phases=nameplate.phases, power_factor=power_factor,
         nominal_voltage=nameplate.rated_voltage.value, resistance_temperature_c=20.0,
         conductor_temperature_c=conductor_temperature)
     assert drop.fraction_of_nominal is not None
     percent = 100 * drop.fraction_of_nominal
     steps = (
-        Step("load current I", reading.value.format(), reading.value.value, "A"),
+        Step(current_label, _fmt(current, Dimension.CURRENT, "A"), current, "A"),
         Step("cable", f"{cable.length.format()} of {cable.cross_section.format()} class "
              f"{cable.conductor_class} copper", cable.length.value, "m"),
         Step("conductor resistance at 20 °C", row.describe(), row.resistance_per_length, "Ω/m"),
@@ -341,7 +347,8 @@ def _cable_voltage_drop(reading: Reading, context: Context, params: dict[str, An
         Step("of nominal", f"{percent:.3f} % of {nameplate.rated_voltage.format()}", percent,
              "%"),
     )
-    return _compare(tolerance, percent, steps, sensitivity=percent / reading.value.value,
+    return _compare(tolerance, percent, steps,
+                    sensitivity=sensitivity_scale * percent / reading.value.value,
                     compared="voltage drop ΔU / U_n",
                     source_note="recommended (informative); reactance neglected; "
                                 f"conductor at {conductor_temperature:g} °C")

@@ -137,7 +137,10 @@ def assess(outcome: Outcome, uncertainty: ReadingUncertainty | str, rule_name: s
             if rule is unc.DecisionRule.GUARDED and verdict is Verdict.PASS:
                 verdict = Verdict.CONDITIONAL_PASS
                 messages.append("no instrument accuracy: the guard band is unknown")
-    if instrument is not None and verdict in (Verdict.PASS, Verdict.CONDITIONAL_PASS):
+    # A value taken from an attached capture does not rest on this instrument's reading.
+    from_reading = outcome.sensitivity != 0.0 or outcome.compared_value is None
+    if (instrument is not None and from_reading
+            and verdict in (Verdict.PASS, Verdict.CONDITIONAL_PASS)):
         state = unc.calibration_state(instrument.calibrated, instrument.calibration_due,
                                       visit_date)
         if not state.valid:

@@ -164,6 +164,7 @@ REFERENCES: dict[str, tuple[str, Dimension]] = {
     "rated_frequency": ("rated frequency", Dimension.FREQUENCY),
     "rated_current": ("rated current", Dimension.CURRENT),
     "protective_device": ("protective device rating", Dimension.CURRENT),
+    "conductor": ("current-carrying capacity of the supply cable", Dimension.CURRENT),
 }
 
 
@@ -178,6 +179,9 @@ def _reference(name: str, context: Context) -> Quantity | None:
     if name == "protective_device":
         device = nameplate.protective_device
         return device.rating if device else None
+    if name == "conductor":
+        cable = nameplate.supply_cable
+        return cable.ampacity if cable else None
     raise KeyError(name)  # pragma: no cover - validated against REFERENCES
 
 
@@ -269,6 +273,11 @@ def _current_against(reading: Reading, context: Context, params: dict[str, Any])
     label, _ = REFERENCES[reference_name]
     reference = _reference(reference_name, context)
     factor = float(params.get("factor", 1.0))
+    if reference is None and reference_name == "conductor":
+        # The designer's Iz is often not on site; the check is kept visible, not failed.
+        return Outcome(Verdict.RECORDED, "I ≤ Iz",
+                       message="no current-carrying capacity (ampacity) is given for the supply "
+                               "cable in machine.yaml; add it to check the conductor")
     if reference is None:
         return Outcome(Verdict.UNDETERMINED, f"I ≤ {label}",
                        message=f"the nameplate gives no {label}; add it to machine.yaml")
@@ -488,7 +497,8 @@ RULES: dict[str, Rule] = {rule.name: rule for rule in (
          {"reference": Param("reference", choices=_REF), "lower": Param("ratio", False),
           "upper": Param("ratio", False)}, _relative_to, groups=(("lower", "upper"),)),
     Rule("current_against", "current ≤ factor × a rating, on the rating's basis",
-         {"reference": Param("reference", choices=("rated_current", "protective_device")),
+         {"reference": Param("reference",
+                             choices=("rated_current", "protective_device", "conductor")),
           "factor": Param("number", False)}, _current_against),
     Rule("winding_resistance", "resistance corrected to the reference temperature within "
          "the nameplate tolerance",
