@@ -510,7 +510,8 @@ def part_behaviour(machine_result: MachineResult, visit: VisitResult | str,
             # An item measured on the part's own element shows that element; an item of the
             # whole machine (a line current behind a new contactor) shows every element.
             own = [c for c in changes if c.element == part.element]
-            behaviour.extend(own or changes)
+            # The cause of this change is known (the swap): no suggestion of another.
+            behaviour.extend(replace(c, note=None) for c in (own or changes))
             before_label = "as found" if re_measured else before_visit.id
         found.append(replace(part, before=before_label, behaviour=tuple(behaviour)))
     return tuple(found)
