@@ -222,6 +222,8 @@ class PdfTask:
     pdf: str  # site-relative path of the PDF
     key: str  # digest of everything the PDF is made from
     sources: tuple[Path, ...] = ()  # input files the PDF depends on (e.g. embedded ones)
+    attachments: tuple[object, ...] = ()  # rendering.pdf.PdfSource: files embedded (PDF/A-3)
+    info: object = None  # rendering.pdf.PdfInfo: identifier, dates, keywords
 
 
 _BUILD_STATE = ".acceptance-build.json"
@@ -230,7 +232,8 @@ _BUILD_STATE = ".acceptance-build.json"
 def _site_files(job: Job, result: JobResult, pages: list[SitePage]) -> dict[str, bytes]:
     """Every output file but the PDFs, in memory: rendering HTML is cheap, PDFs are not."""
     files: dict[str, bytes] = {}
-    env = make_environment({"job": result, "tool_version": __version__})
+    signatures = _signature_states(job)
+    env = _review_environment(result, signatures)
     for page in pages:
         template = env.get_template(page.template)
         extra = {}
@@ -249,7 +252,113 @@ def _site_files(job: Job, result: JobResult, pages: list[SitePage]) -> dict[str,
                     source.read_bytes()
     files["results.json"] = (json.dumps(to_json(result), ensure_ascii=False, indent=2)
                              + "\n").encode()
+    files.update(_review_files(result, signatures))
     return files
+
+
+def _signature_states(job: Job) -> dict[str, object]:
+    from .integrity import signature_statuses
+
+    return dict(signature_statuses(job))
+
+
+def _review_environment(result: JobResult, signatures: dict[str, object]):  # noqa: ANN202
+    from .rendering.review import review_globals
+
+    return make_environment({"job": result, "tool_version": __version__,
+                             **review_globals(signatures, package_pdf=True)})
+
+
+def _review_files(result: JobResult, signatures: dict[str, object]) -> dict[str, bytes]:
+    """The index filters' data and the punch list as CSV (acceptance.rendering.review)."""
+    from .rendering.review import (
+        DEFICIENCIES_CSV_NAME,
+        INDEX_DATA_NAME,
+        deficiencies_csv,
+        index_data_script,
+    )
+
+    return {INDEX_DATA_NAME: index_data_script(result).encode(),
+            DEFICIENCIES_CSV_NAME: deficiencies_csv(_deficiencies(result), result,
+                                                    signatures).encode()}
+
+
+def _archival_tasks(job: Job, result: JobResult, pages: list[SitePage],
+                    files: dict[str, bytes]) -> list[PdfTask]:
+    """The record PDFs with the sources they embed and their metadata, then the package.
+
+    A task's key covers the embedded files and the dates as well as the page, so a change
+    to a comment in a visit file (not shown, but embedded) renders the record again.
+    """
+    import dataclasses
+
+    from .rendering.package import PACKAGE_NAME, visit_pdf_info, visit_sources
+
+    visits = {f"machines/{m.id}/{v.id}.pdf": (m, v) for m in job.machines for v in m.visits}
+    results = {f"machines/{v.machine}/{v.id}.pdf": v for v in result.visits}
+    signatures = _signature_states(job)
+    tasks = []
+    for task in _pdf_tasks(pages, files):
+        if task.pdf in visits:
+            machine, visit = visits[task.pdf]
+            sources = tuple(visit_sources(job, machine, visit))
+            signature = signatures[f"{machine.id}/{visit.id}"]
+            info = visit_pdf_info(machine, results[task.pdf],
+                                  signature.phrase)  # type: ignore[attr-defined]
+            key = hashlib.sha256(task.key.encode() + repr(info).encode())
+            for source in sources:
+                key.update(source.name.encode() + b"\0" + hashlib.sha256(source.data).digest())
+            task = dataclasses.replace(task, attachments=sources, info=info,
+                                       key=key.hexdigest())
+        tasks.append(task)
+    package = hashlib.sha256(b"package\0" + "".join(t.key for t in tasks).encode())
+    for name in ("deficiencies.html", "instruments.html", "results.json"):
+        package.update(name.encode() + b"\0" + hashlib.sha256(files[name]).digest())
+    package.update(repr(_package_info(job, result)).encode())
+    return [*tasks, PdfTask(PACKAGE_NAME, PACKAGE_NAME, package.hexdigest())]
+
+
+def _package_info(job: Job, result: JobResult):  # noqa: ANN202
+    import datetime as _dt
+
+    from .rendering.package import build_moment
+    from .rendering.pdf import PdfInfo
+
+    latest = max((v.date for v in result.visits), default=_dt.date(1970, 1, 1))
+    moment = build_moment(latest)
+    return PdfInfo(identifier=f"acceptance package {job.root.resolve().name}",
+                   created=moment, modified=moment, keywords=["site package", result.site],
+                   title=f"Site package: {result.title}",
+                   subject=f"Every visit record of {result.site}, the deficiencies and "
+                           "the instruments", authors=[result.contractor])
+
+
+def _records(tasks: list[PdfTask]) -> list[PdfTask]:
+    from .rendering.package import PACKAGE_NAME
+
+    return [t for t in tasks if t.pdf != PACKAGE_NAME]
+
+
+def _render_package(job: Job, result: JobResult, tasks: list[PdfTask], staging: Path,
+                    progress: Callable[[str], None] | None) -> int:
+    """Write package.pdf when its task is among ``tasks``; every record must be in place."""
+    from .rendering.package import PACKAGE_NAME, render_package
+    from .rendering.pdf import PdfSource
+
+    if not any(t.pdf == PACKAGE_NAME for t in tasks):
+        return 0
+    signatures = _signature_states(job)
+    sources = [PdfSource("results.json", (staging / "results.json").read_bytes(),
+                         "the computed results (schema " + RESULTS_SCHEMA + ")")]
+    return render_package(_review_environment(result, signatures), result, staging,
+                          signatures, sources, _package_info(job, result), progress)
+
+
+def _sign_manifest(staging: Path, key: Path | None) -> None:
+    if key is not None:
+        from .integrity import load_private_key, sign_manifest
+
+        sign_manifest(staging / MANIFEST_NAME, load_private_key(key))
 
 
 def _pdf_tasks(pages: list[SitePage], files: dict[str, bytes]) -> list[PdfTask]:
@@ -288,7 +397,9 @@ def _render_one(task: PdfTask, staging: str) -> tuple[str, int]:
     from .rendering.pdf import render_pdf  # the PDF stack loads only when needed
 
     root = Path(staging)
-    return task.pdf, render_pdf(root / task.html, root / task.pdf, roots=[root])
+    return task.pdf, render_pdf(root / task.html, root / task.pdf, roots=[root],
+                                attachments=task.attachments,  # type: ignore[arg-type]
+                                info=task.info)  # type: ignore[arg-type]
 
 
 def _render_pdfs(tasks: list[PdfTask], staging: Path, jobs: int,
@@ -328,7 +439,8 @@ def _link_or_copy(source: Path, target: Path) -> None:
 
 
 def build_site(job_root: Path, output: Path, with_pdf: bool = True,
-               progress: Callable[[str], None] | None = None, jobs: int = 1) -> BuildReport:
+               progress: Callable[[str], None] | None = None, jobs: int = 1,
+               key: Path | None = None) -> BuildReport:
     """Build the site for the job at ``job_root`` into ``output``.
 
     Only what changed is rendered again: a PDF whose page, styles and tool version are
@@ -343,7 +455,7 @@ def build_site(job_root: Path, output: Path, with_pdf: bool = True,
     with _build_lock(output):
         pages = plan_site(result)
         files = _site_files(job, result, pages)
-        tasks = _pdf_tasks(pages, files) if with_pdf else []
+        tasks = _archival_tasks(job, result, pages, files) if with_pdf else []
         report.pages = len(pages)
         previous_digests, previous_keys = _previous_state(output)
         digests = {name: hashlib.sha256(data).hexdigest() for name, data in files.items()}
@@ -368,7 +480,8 @@ def build_site(job_root: Path, output: Path, with_pdf: bool = True,
             for task in reusable:
                 _link_or_copy(output / task.pdf, staging / task.pdf)
             fresh = [t for t in tasks if t not in reusable]
-            report.pdf_pages = _render_pdfs(fresh, staging, jobs, progress)
+            report.pdf_pages = _render_pdfs(_records(fresh), staging, jobs, progress)
+            report.pdf_pages += _render_package(job, result, fresh, staging, progress)
             report.pdfs = len(tasks)
             report.rendered = len(fresh)
             (staging / _BUILD_STATE).write_text(
@@ -377,6 +490,7 @@ def build_site(job_root: Path, output: Path, with_pdf: bool = True,
                 + "\n", encoding="utf-8")
             (staging / _MARKER).write_text(f"acceptance {__version__}\n", encoding="utf-8")
             report.files = _write_manifest(staging)
+            _sign_manifest(staging, key)
             _exchange(staging, output)
         except BaseException:
             shutil.rmtree(staging, ignore_errors=True)

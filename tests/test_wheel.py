@@ -78,6 +78,6 @@ def test_installed_command_builds_the_demo(installed, tmp_path):
     pdfs = sorted(p.relative_to(site).as_posix() for p in site.rglob("*.pdf"))
     visits = sorted(p.relative_to(job).with_suffix(".pdf").as_posix().replace("/visits/", "/")
                     for p in job.glob("machines/*/visits/*.yaml"))
-    assert pdfs == visits
+    assert pdfs == sorted([*visits, "package.pdf"])
     for pdf in pdfs:
         assert (site / pdf).read_bytes().startswith(b"%PDF-")

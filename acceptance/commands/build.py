@@ -19,6 +19,9 @@ def register(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("-j", "--jobs", type=int, default=None,
                         help="PDF worker processes (default: the number of CPUs)")
     parser.add_argument("-q", "--quiet", action="store_true", help="print nothing on success")
+    parser.add_argument("--key", type=Path, metavar="KEYFILE",
+                        help="Ed25519 private key (from `acceptance keygen`) to sign the "
+                             "manifest with, written as MANIFEST.sha256.sig")
 
 
 def run(args: argparse.Namespace) -> int:
@@ -30,8 +33,12 @@ def run(args: argparse.Namespace) -> int:
     jobs = args.jobs if args.jobs is not None else max(1, len(os.sched_getaffinity(0)))
     if jobs < 1:
         raise BuildError("--jobs must be 1 or more")
+    if args.key is not None:
+        from ..integrity import load_private_key
+
+        load_private_key(args.key)  # a bad key stops the build before anything is rendered
     report = build_site(args.job, args.output, with_pdf=not args.no_pdf,
-                        progress=progress if interactive else None, jobs=jobs)
+                        progress=progress if interactive else None, jobs=jobs, key=args.key)
     if interactive and report.rendered:
         print(file=sys.stderr)
     if not args.quiet:

@@ -80,4 +80,23 @@ def run(args: argparse.Namespace) -> int:
         sys.stdout.write("\n")
     else:
         print("\n".join(summary_lines(result, args.all)))
-    return 0 if all(v.state is VisitState.PASS for v in result.visits) else 1
+    altered = _report_signatures(job, to_stderr=args.json)
+    return 0 if all(v.state is VisitState.PASS for v in result.visits) and not altered else 1
+
+
+def _report_signatures(job: object, to_stderr: bool) -> int:
+    """Print each signed visit's sign-off state; return how many were altered after it."""
+    from ..integrity import signature_statuses
+
+    stream = sys.stderr if to_stderr else sys.stdout
+    altered = 0
+    for key, status in signature_statuses(job).items():  # type: ignore[arg-type]
+        if status.state == "unsigned":
+            continue
+        who = ", ".join(f"{c.name} ({c.role})" for c in status.checks)
+        print(f"{key}: {status.phrase.upper() if status.state != 'signed' else status.phrase}"
+              f" — {who}", file=stream)
+        for reason in status.reasons:
+            print(f"    {reason}", file=stream)
+        altered += status.state != "signed"
+    return altered

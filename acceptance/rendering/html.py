@@ -17,7 +17,8 @@ from markupsafe import Markup
 from ..resources import templates_dir
 from ..results import Verdict, VisitState
 
-__all__ = ["make_environment", "render_markdown", "VERDICT_SHAPES", "STATE_SHAPES"]
+__all__ = ["make_environment", "render_markdown", "VERDICT_SHAPES", "STATE_SHAPES",
+           "SIGNATURE_SHAPES"]
 
 # Each verdict has a word and a shape, so a record reads in grey-scale print and for
 # readers who do not tell colours apart (NAMING.md: more than colour alone).
@@ -36,6 +37,15 @@ STATE_SHAPES: dict[VisitState, str] = {
     VisitState.PASS_WITH_DEFICIENCIES: "!",
     VisitState.INCOMPLETE: "○",
     VisitState.FAIL: "✗",
+}
+
+# Sign-off states, also a word and a shape; "altered" is drawn like a failure because the
+# verdicts shown are no longer the ones that were signed.
+SIGNATURE_SHAPES: dict[str, str] = {
+    "unsigned": "○",
+    "signed": "✓",
+    "altered": "✗",
+    "invalid": "✗",
 }
 
 _SAFE_SCHEMES = ("http:", "https:", "mailto:")
@@ -73,6 +83,20 @@ def _verdict_badge(verdict: Verdict | VisitState) -> Markup:
         slug=verdict.slug, shape=shape, word=verdict.value)
 
 
+def _signature_badge(status: Any) -> Markup:
+    state = getattr(status, "state", "unsigned")
+    phrase = getattr(status, "phrase", "not signed")
+    return Markup('<span class="badge sig sig-{state}"><span class="shape" aria-hidden="true">'
+                  '{shape}</span> {phrase}</span>').format(
+        state=state, shape=SIGNATURE_SHAPES.get(state, "?"), phrase=phrase)
+
+
+def _unsigned(visit: Any) -> Any:
+    from ..integrity import SignatureStatus
+
+    return SignatureStatus("unsigned")
+
+
 def make_environment(extra_globals: dict[str, Any] | None = None,
                      directory: Path | None = None) -> jinja2.Environment:
     env = jinja2.Environment(
@@ -85,6 +109,10 @@ def make_environment(extra_globals: dict[str, Any] | None = None,
     )
     env.filters["markdown"] = render_markdown
     env.filters["badge"] = _verdict_badge
+    env.filters["signature_badge"] = _signature_badge
+    # Pages show a visit's sign-off through signature_of(visit); the build replaces this
+    # default with the states it checked (acceptance.integrity).
+    env.globals["signature_of"] = _unsigned
     env.globals.update(extra_globals or {})
     env.globals["Verdict"] = Verdict
     env.globals["VisitState"] = VisitState

@@ -1,0 +1,45 @@
+"""``acceptance verify DIR``: check a built site against its manifest, or a job's signatures.
+
+Every mismatch is reported; the exit code is 0 when there is none and 1 otherwise.
+"""
+
+from __future__ import annotations
+
+import argparse
+import sys
+from pathlib import Path
+
+from ..integrity import IntegrityError, load_public_key, verify_job, verify_site
+
+
+def register(parser: argparse.ArgumentParser) -> None:
+    parser.add_argument("folder", type=Path,
+                        help="a built site (with MANIFEST.sha256) or a job folder (job.yaml)")
+    parser.add_argument("--public-key", type=Path, action="append", default=None,
+                        metavar="FILE",
+                        help="a trusted public key; when given, every signature must be made "
+                             "with one of them (repeat for several)")
+
+
+def run(args: argparse.Namespace) -> int:
+    folder: Path = args.folder
+    trusted = ([load_public_key(path) for path in args.public_key]
+               if args.public_key else None)
+    if (folder / "job.yaml").is_file():
+        report = verify_job(folder, trusted)
+        what = f"{report.checked} signatures"
+    elif (folder / "MANIFEST.sha256").is_file():
+        report = verify_site(folder, trusted)
+        what = f"{report.checked} files in the manifest"
+    else:
+        raise IntegrityError(f"{folder} holds neither MANIFEST.sha256 (a built site) nor "
+                             "job.yaml (a job folder)")
+    for note in report.notes:
+        print(f"  {note}")
+    for problem in report.problems:
+        print(f"MISMATCH {problem}", file=sys.stderr)
+    if report.ok:
+        print(f"OK: {what} checked in {folder}, no mismatch")
+        return 0
+    print(f"{len(report.problems)} mismatches in {folder} ({what} checked)", file=sys.stderr)
+    return 1

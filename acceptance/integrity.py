@@ -1,0 +1,652 @@
+"""Sign-off that cannot be altered silently, and verification of signed visits and built sites.
+
+A signature record covers a digest of everything a visit's verdicts rest on: the visit file,
+the machine file, the checklists the machine uses, the register entries of the instruments the
+readings name, the job's limits and local rules, the files a reading or the visit attaches,
+and the tool version. The record lives beside those files, never inside them
+(``machines/<id>/signatures/<visit>.yaml``), so writing it changes nothing it covers.
+
+Canonical form. A YAML input is digested as the SHA-256 of its parsed data written as JSON
+with sorted keys, no insignificant white space and UTF-8 (:func:`canonical_json`): comments,
+key order and layout are not part of what was signed, every value is. Other files (captures,
+photos) are digested from their raw bytes. The visit's digest is the SHA-256 of the canonical
+JSON of ``{"schema", "tool_version", "inputs": {name: digest}}``, so a record can say which
+input changed, not only that one did.
+
+An optional Ed25519 signature (RFC 8032) covers a statement naming the machine, the visit,
+the signer, the role, the time and that digest; the record carries the public key and its
+fingerprint, and ``verify --public-key`` says whether that key is one the reader trusts.
+"""
+
+from __future__ import annotations
+
+import base64
+import dataclasses
+import datetime as _dt
+import hashlib
+import json
+import os
+from collections.abc import Iterable, Iterator
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import TYPE_CHECKING, Any, Literal
+
+from pydantic import BaseModel, ConfigDict, Field
+
+from . import __version__
+from .errors import AcceptanceError
+
+if TYPE_CHECKING:  # loading imports this module lazily; only types are needed here
+    from .loading import Job, LoadedMachine, LoadedVisit
+
+__all__ = [
+    "SIGNATURE_SCHEMA", "SIGNED_INPUTS_SCHEMA", "SIGNATURES_DIR", "MANIFEST_SIGNATURE_NAME",
+    "IntegrityError", "KeyPair", "SignatureEntry", "SignatureFile", "SignatureCheck",
+    "SignatureStatus", "SignedInput", "SiteReport", "canonical_json", "fingerprint",
+    "generate_key", "load_private_key", "load_public_key", "signature_path", "signed_at_now",
+    "sign_visit", "visit_inputs", "visit_digest", "check_visit_signatures",
+    "signature_statuses", "sign_manifest", "verify_site", "verify_job",
+]
+
+SIGNATURE_SCHEMA = "acceptance-signature/1"
+SIGNED_INPUTS_SCHEMA = "acceptance-signed-inputs/1"
+SIGNATURES_DIR = "signatures"
+MANIFEST_SIGNATURE_NAME = "MANIFEST.sha256.sig"
+
+# Fields of job.yaml that describe the job and decide no verdict; renaming the site or the
+# contractor must not invalidate every signature. Everything else (limits, local rules,
+# decision rule, coverage factor, standards and whatever is added later) is covered.
+_DESCRIPTIVE_JOB_FIELDS = frozenset({"title", "site", "contractor", "client", "notes"})
+
+_HEADER = (
+    "# Sign-off record written by `acceptance sign`. It lives outside the files it covers,\n"
+    "# so signing changed none of them. Do not edit it: any change to it, or to the files it\n"
+    "# covers, shows the visit as altered after sign-off.\n")
+
+
+class IntegrityError(AcceptanceError):
+    """A key, a signature record or a site cannot be used as asked."""
+
+    exit_code = 2
+
+
+# ------------------------------------------------------------------ canonical digests
+
+
+def canonical_json(data: Any) -> bytes:
+    """``data`` as JSON with sorted keys, compact separators and UTF-8 (RFC 8259)."""
+    return json.dumps(data, sort_keys=True, ensure_ascii=False, separators=(",", ":"),
+                      allow_nan=False).encode("utf-8")
+
+
+def _sha256(data: bytes) -> str:
+    return hashlib.sha256(data).hexdigest()
+
+
+@dataclass(frozen=True)
+class SignedInput:
+    """One input a visit's verdicts rest on, with its digest."""
+
+    name: str  # "visit", "machine", "job", "checklist:<id>", "instrument:<id>", "file:<path>"
+    path: Path  # the file it was read from (an instrument: the register)
+    digest: str
+    description: str
+
+
+def _capture_files(data: Any) -> Iterator[str]:
+    if isinstance(data, dict):
+        capture = data.get("capture")
+        if isinstance(capture, dict) and isinstance(capture.get("file"), str):
+            yield capture["file"]
+        for value in data.values():
+            yield from _capture_files(value)
+    elif isinstance(data, list):
+        for value in data:
+            yield from _capture_files(value)
+
+
+def visit_inputs(job: Job, machine: LoadedMachine, visit: LoadedVisit) -> list[SignedInput]:
+    """Every input of ``visit``'s verdicts, in a stable order."""
+    inputs = [
+        SignedInput("visit", visit.path, _sha256(canonical_json(visit.document.data)),
+                    f"visit file {visit.document.display_name}"),
+        SignedInput("machine", machine.document.path,
+                    _sha256(canonical_json(machine.document.data)),
+                    f"machine file {machine.document.display_name}"),
+    ]
+    job_data = job.document.data if isinstance(job.document.data, dict) else {}
+    rules = {key: value for key, value in job_data.items()
+             if key not in _DESCRIPTIVE_JOB_FIELDS}
+    inputs.append(SignedInput("job", job.document.path, _sha256(canonical_json(rules)),
+                              f"limits, local rules and decision rule in "
+                              f"{job.document.display_name}"))
+    for checklist_id in sorted(set(machine.model.checklists)):
+        loaded = job.checklists.get(checklist_id)
+        if loaded is None:
+            continue
+        inputs.append(SignedInput(
+            f"checklist:{checklist_id}", loaded.document.path,
+            _sha256(canonical_json(loaded.document.data)),
+            f"checklist {checklist_id} ({loaded.origin})"))
+    recorded = [*visit.readings.values(), *(getattr(visit, "as_left", None) or {}).values()]
+    used = {r.instrument for readings in recorded for r in readings if r.instrument}
+    entries: dict[str, Any] = {}
+    register = job.instruments_document
+    if register is not None and isinstance(register.data, dict):
+        for entry in register.data.get("instruments") or []:
+            if isinstance(entry, dict) and entry.get("id") in used:
+                entries[str(entry["id"])] = entry
+    for instrument in sorted(used):
+        inputs.append(SignedInput(
+            f"instrument:{instrument}", register.path if register else job.root,
+            _sha256(canonical_json(entries.get(instrument))),
+            f"register entry of instrument {instrument}"))
+    files = {a.path for a in visit.model.attachments} | set(_capture_files(visit.document.data))
+    for relative in sorted(files):
+        path = machine.folder / relative
+        digest = _sha256(path.read_bytes()) if path.is_file() else "missing"
+        inputs.append(SignedInput(f"file:{relative}", path, digest,
+                                  f"attached file {machine.id}/{relative}"))
+    return inputs
+
+
+def _combined_digest(inputs: dict[str, str], tool_version: str) -> str:
+    return "sha256:" + _sha256(canonical_json(
+        {"schema": SIGNED_INPUTS_SCHEMA, "tool_version": tool_version, "inputs": inputs}))
+
+
+def visit_digest(job: Job, machine: LoadedMachine, visit: LoadedVisit,
+                 tool_version: str = __version__) -> tuple[str, dict[str, str]]:
+    """The visit's digest and the digest of each input it covers."""
+    inputs = {i.name: i.digest for i in visit_inputs(job, machine, visit)}
+    return _combined_digest(inputs, tool_version), inputs
+
+
+# ------------------------------------------------------------------ keys
+
+
+def fingerprint(public_raw: bytes) -> str:
+    """The first 128 bits of the SHA-256 of the raw 32-byte Ed25519 public key, as hex in
+    groups of four (enough to tell keys apart by eye; the record keeps the whole key)."""
+    digest = _sha256(public_raw)
+    return " ".join(digest[i:i + 4] for i in range(0, 32, 4))
+
+
+@dataclass(frozen=True)
+class KeyPair:
+    private: Any  # Ed25519PrivateKey
+    public_raw: bytes
+
+    @property
+    def fingerprint(self) -> str:
+        return fingerprint(self.public_raw)
+
+
+def _crypto() -> Any:
+    from cryptography.hazmat.primitives import serialization
+    from cryptography.hazmat.primitives.asymmetric import ed25519
+
+    return serialization, ed25519
+
+
+def _raw_public(public_key: Any) -> bytes:
+    serialization, _ = _crypto()
+    return public_key.public_bytes(serialization.Encoding.Raw, serialization.PublicFormat.Raw)
+
+
+def generate_key(path: Path, overwrite: bool = False) -> KeyPair:
+    """Write a new Ed25519 private key to ``path`` (PEM, mode 0600) and its public key to
+    ``path`` + ``.pub``."""
+    serialization, ed25519 = _crypto()
+    path = Path(path)
+    public_path = path.with_name(path.name + ".pub")
+    for target in (path, public_path):
+        if target.exists() and not overwrite:
+            raise IntegrityError(f"{target} exists; a key is never overwritten. Choose "
+                                 "another file name")
+    private = ed25519.Ed25519PrivateKey.generate()
+    pem = private.private_bytes(serialization.Encoding.PEM, serialization.PrivateFormat.PKCS8,
+                                serialization.NoEncryption())
+    path.parent.mkdir(parents=True, exist_ok=True)
+    descriptor = os.open(path, os.O_WRONLY | os.O_CREAT | os.O_TRUNC, 0o600)
+    with os.fdopen(descriptor, "wb") as handle:
+        handle.write(pem)
+    public_path.write_bytes(private.public_key().public_bytes(
+        serialization.Encoding.PEM, serialization.PublicFormat.SubjectPublicKeyInfo))
+    return KeyPair(private, _raw_public(private.public_key()))
+
+
+def load_private_key(path: Path) -> KeyPair:
+    serialization, ed25519 = _crypto()
+    try:
+        key = serialization.load_pem_private_key(Path(path).read_bytes(), password=None)
+    except FileNotFoundError:
+        raise IntegrityError(f"{path}: key file not found; create one with "
+                             "`acceptance keygen FILE`") from None
+    except (ValueError, TypeError) as error:
+        raise IntegrityError(f"{path}: not an unencrypted PEM private key ({error})") from None
+    if not isinstance(key, ed25519.Ed25519PrivateKey):
+        raise IntegrityError(f"{path}: not an Ed25519 key; create one with "
+                             "`acceptance keygen FILE`")
+    return KeyPair(key, _raw_public(key.public_key()))
+
+
+def load_public_key(path: Path) -> bytes:
+    """The raw public key from a public key file (or from a private key file)."""
+    serialization, ed25519 = _crypto()
+    try:
+        data = Path(path).read_bytes()
+    except FileNotFoundError:
+        raise IntegrityError(f"{path}: key file not found") from None
+    try:
+        key = serialization.load_pem_public_key(data)
+    except ValueError:
+        return load_private_key(path).public_raw
+    if not isinstance(key, ed25519.Ed25519PublicKey):
+        raise IntegrityError(f"{path}: not an Ed25519 public key")
+    return _raw_public(key)
+
+
+def _sign(key: KeyPair, message: bytes) -> str:
+    return base64.b64encode(key.private.sign(message)).decode("ascii")
+
+
+def _verify(public_raw: bytes, signature_b64: str, message: bytes) -> bool:
+    from cryptography.exceptions import InvalidSignature
+
+    _, ed25519 = _crypto()
+    try:
+        public = ed25519.Ed25519PublicKey.from_public_bytes(public_raw)
+        public.verify(base64.b64decode(signature_b64, validate=True), message)
+    except (InvalidSignature, ValueError):
+        return False
+    return True
+
+
+# ------------------------------------------------------------------ signature records
+
+
+class _Strict(BaseModel):
+    model_config = ConfigDict(extra="forbid", frozen=True)
+
+
+class SignatureKey(_Strict):
+    algorithm: Literal["ed25519"] = "ed25519"
+    public_key: str = Field(description="raw 32-byte public key, base64")
+    fingerprint: str = Field(description="first 128 bits of the SHA-256 of the raw key, hex")
+
+
+class SignatureEntry(_Strict):
+    """One person's sign-off of one visit."""
+
+    name: str
+    role: str
+    signed_at: str = Field(description="UTC, ISO 8601, e.g. 2026-03-10T16:00:00Z")
+    tool_version: str
+    digest: str = Field(pattern=r"^sha256:[0-9a-f]{64}$")
+    inputs: dict[str, str]
+    key: SignatureKey | None = None
+    signature: str | None = Field(None, description="Ed25519 over the statement, base64")
+
+
+class SignatureFile(_Strict):
+    """``machines/<id>/signatures/<visit>.yaml``."""
+
+    schema_: Literal["acceptance-signature/1"] = Field(alias="schema")
+    machine: str
+    visit: str
+    signatures: list[SignatureEntry] = Field(min_length=1)
+
+
+def signature_path(machine_folder: Path, visit_id: str) -> Path:
+    return Path(machine_folder) / SIGNATURES_DIR / f"{visit_id}.yaml"
+
+
+def _statement(machine: str, visit: str, entry_name: str, role: str, signed_at: str,
+               digest: str) -> bytes:
+    return canonical_json({"schema": SIGNATURE_SCHEMA, "machine": machine, "visit": visit,
+                           "name": entry_name, "role": role, "signed_at": signed_at,
+                           "digest": digest})
+
+
+def signed_at_now() -> str:
+    """Now in UTC, or ``SOURCE_DATE_EPOCH`` when set (reproducible builds convention)."""
+    epoch = os.environ.get("SOURCE_DATE_EPOCH")
+    moment = (_dt.datetime.fromtimestamp(int(epoch), _dt.UTC) if epoch
+              else _dt.datetime.now(_dt.UTC))
+    return moment.replace(microsecond=0).strftime("%Y-%m-%dT%H:%M:%SZ")
+
+
+def _read_record(path: Path) -> SignatureFile:
+    from pydantic import ValidationError
+
+    from .errors import InputError
+    from .yamlfile import load_yaml
+
+    try:
+        document = load_yaml(path)
+        return SignatureFile.model_validate(document.data)
+    except InputError as error:
+        raise IntegrityError(f"{path}: cannot be read: {error}") from None
+    except ValidationError as error:
+        raise IntegrityError(f"{path}: not a signature record: {error}") from None
+
+
+def _write_record(path: Path, record: SignatureFile) -> None:
+    import yaml
+
+    data = record.model_dump(by_alias=True, exclude_none=True)
+    text = _HEADER + yaml.safe_dump(data, sort_keys=False, allow_unicode=True, width=100)
+    path.parent.mkdir(parents=True, exist_ok=True)
+    staging = path.with_name(f".{path.name}.tmp-{os.getpid()}")
+    staging.write_text(text, encoding="utf-8")
+    os.replace(staging, path)
+
+
+@dataclass(frozen=True)
+class SignOutcome:
+    path: Path
+    entry: SignatureEntry
+    previous: int  # signatures already in the record
+
+
+def sign_visit(job: Job, machine_id: str, visit_id: str, name: str, role: str,
+               key: KeyPair | None = None, signed_at: str | None = None) -> SignOutcome:
+    """Add a signature for the visit's current inputs to its record; never rewrite one."""
+    machine = next((m for m in job.machines if m.id == machine_id), None)
+    if machine is None:
+        known = ", ".join(m.id for m in job.machines)
+        raise IntegrityError(f"no machine '{machine_id}' in {job.root}; known: {known}")
+    visit = next((v for v in machine.visits if v.id == visit_id), None)
+    if visit is None:
+        known = ", ".join(v.id for v in machine.visits) or "none"
+        raise IntegrityError(f"machine '{machine_id}' has no visit '{visit_id}'; "
+                             f"known: {known}")
+    if not name.strip() or not role.strip():
+        raise IntegrityError("a signature needs a name and a role")
+    digest, inputs = visit_digest(job, machine, visit)
+    moment = signed_at or signed_at_now()
+    path = signature_path(machine.folder, visit_id)
+    existing = _read_record(path).signatures if path.exists() else []
+    for previous in existing:
+        if (previous.name, previous.role, previous.digest) == (name, role, digest):
+            raise IntegrityError(
+                f"{path} already holds a signature by {name} as {role} for these very "
+                "inputs; nothing was written")
+    entry_key = signature = None
+    if key is not None:
+        entry_key = SignatureKey(public_key=base64.b64encode(key.public_raw).decode("ascii"),
+                                 fingerprint=key.fingerprint)
+        signature = _sign(key, _statement(machine_id, visit_id, name, role, moment, digest))
+    entry = SignatureEntry(name=name, role=role, signed_at=moment, tool_version=__version__,
+                           digest=digest, inputs=inputs, key=entry_key, signature=signature)
+    record = SignatureFile(schema=SIGNATURE_SCHEMA, machine=machine_id, visit=visit_id,
+                           signatures=[*existing, entry])
+    _write_record(path, record)
+    return SignOutcome(path, entry, len(existing))
+
+
+# ------------------------------------------------------------------ checking signed visits
+
+
+@dataclass(frozen=True)
+class SignatureCheck:
+    """One signature of a visit, checked against the inputs as they are now."""
+
+    name: str
+    role: str
+    signed_at: str
+    fingerprint: str | None
+    # superseded: signed over earlier inputs, and a later signature covers the current ones
+    state: Literal["valid", "altered", "invalid", "superseded"]
+    changes: tuple[str, ...] = ()  # inputs changed since signing
+    problems: tuple[str, ...] = ()  # the record itself does not hold together
+    trusted: bool | None = None  # None: no trusted keys were given
+
+    @property
+    def signed_date(self) -> str:
+        return self.signed_at[:10]
+
+
+@dataclass(frozen=True)
+class SignatureStatus:
+    """How a visit stands: unsigned, signed and unchanged, altered, or with a bad record."""
+
+    state: Literal["unsigned", "signed", "altered", "invalid"]
+    checks: tuple[SignatureCheck, ...] = ()
+    record: str | None = None  # job-relative path of the signature record
+
+    @property
+    def phrase(self) -> str:
+        return {"unsigned": "not signed", "signed": "signed, unchanged since sign-off",
+                "altered": "altered after sign-off",
+                "invalid": "signature does not verify"}[self.state]
+
+    @property
+    def reasons(self) -> list[str]:
+        return [text for check in self.checks if check.state in ("altered", "invalid")
+                for text in (*check.problems, *check.changes)]
+
+
+def _describe_changes(entry: SignatureEntry, current: dict[str, str],
+                      descriptions: dict[str, str]) -> list[str]:
+    changes = []
+    if entry.tool_version != __version__:
+        changes.append(f"tool version {entry.tool_version} at sign-off, {__version__} now")
+    for name in sorted(set(entry.inputs) | set(current)):
+        then, now = entry.inputs.get(name), current.get(name)
+        what = descriptions.get(name, name)
+        if then == now:
+            continue
+        if then is None:
+            changes.append(f"{what} added since sign-off")
+        elif now is None:
+            changes.append(f"{name.replace(':', ' ')} no longer used (was covered)")
+        elif now == "missing":
+            changes.append(f"{what} is missing")
+        else:
+            changes.append(f"{what} changed")
+    return changes
+
+
+def check_visit_signatures(job: Job, machine: LoadedMachine, visit: LoadedVisit,
+                           trusted: Iterable[bytes] | None = None) -> SignatureStatus:
+    """Check every signature of ``visit`` against its inputs as they are now."""
+    records = list(getattr(visit, "signatures", None) or [])
+    path = signature_path(machine.folder, visit.id)
+    if not records:
+        return SignatureStatus("unsigned")
+    trusted_set = set(trusted) if trusted is not None else None
+    inputs = visit_inputs(job, machine, visit)
+    current = {i.name: i.digest for i in inputs}
+    descriptions = {i.name: i.description for i in inputs}
+    checks = []
+    for record in records:
+        for entry in record.signatures:
+            problems = []
+            if (record.machine, record.visit) != (machine.id, visit.id):
+                problems.append(f"the record names {record.machine}/{record.visit}, not "
+                                f"{machine.id}/{visit.id}")
+            if _combined_digest(entry.inputs, entry.tool_version) != entry.digest:
+                problems.append("the record's input digests do not give its digest "
+                                "(the record was edited)")
+            fingerprint_text = None
+            is_trusted = None
+            if entry.key is not None or entry.signature is not None:
+                if entry.key is None or entry.signature is None:
+                    problems.append("the record has a key without a signature or a "
+                                    "signature without a key")
+                else:
+                    try:
+                        raw = base64.b64decode(entry.key.public_key, validate=True)
+                    except ValueError:
+                        raw = b""
+                    fingerprint_text = fingerprint(raw) if len(raw) == 32 else None
+                    message = _statement(record.machine, record.visit, entry.name, entry.role,
+                                         entry.signed_at, entry.digest)
+                    if fingerprint_text is None or not _verify(raw, entry.signature, message):
+                        problems.append(f"the Ed25519 signature of {entry.name} does not "
+                                        "verify with the key in the record")
+                    elif fingerprint_text != entry.key.fingerprint:
+                        problems.append("the fingerprint printed on the record is not "
+                                        "that of its key")
+                    if trusted_set is not None:
+                        is_trusted = raw in trusted_set
+                        if not is_trusted:
+                            problems.append(f"signed with key {fingerprint_text}, which is "
+                                            "not one of the trusted keys given")
+            elif trusted_set is not None:
+                is_trusted = False
+                problems.append(f"{entry.name}'s signature carries no key, and trusted keys "
+                                "were asked for")
+            changes = _describe_changes(entry, current, descriptions)
+            state: Literal["valid", "altered", "invalid"] = (
+                "invalid" if problems else "altered" if changes else "valid")
+            checks.append(SignatureCheck(entry.name, entry.role, entry.signed_at,
+                                         fingerprint_text, state, tuple(changes),
+                                         tuple(problems), is_trusted))
+    # A later signature over the current inputs (a re-sign after the changes were reviewed)
+    # supersedes earlier ones made over other inputs; they stay listed, never removed.
+    latest_valid = max((n for n, c in enumerate(checks) if c.state == "valid"), default=-1)
+    checks = [dataclasses.replace(c, state="superseded")
+              if c.state == "altered" and n < latest_valid else c
+              for n, c in enumerate(checks)]
+    states = {c.state for c in checks}
+    overall: Literal["signed", "altered", "invalid"] = (
+        "invalid" if "invalid" in states else "altered" if "altered" in states else "signed")
+    try:
+        shown = path.relative_to(job.root.parent).as_posix()
+    except ValueError:
+        shown = path.as_posix()
+    return SignatureStatus(overall, tuple(checks), shown)
+
+
+def signature_statuses(job: Job) -> dict[str, SignatureStatus]:
+    """``machine/visit`` → its signature status, for every visit of the job."""
+    return {f"{m.id}/{v.id}": check_visit_signatures(job, m, v)
+            for m in job.machines for v in m.visits}
+
+
+# ------------------------------------------------------------------ built sites
+
+
+def sign_manifest(manifest: Path, key: KeyPair) -> Path:
+    """Write ``MANIFEST.sha256.sig`` beside ``manifest``: an Ed25519 signature of its bytes."""
+    target = manifest.with_name(MANIFEST_SIGNATURE_NAME)
+    text = (f"algorithm: ed25519\n"
+            f"public_key: {base64.b64encode(key.public_raw).decode('ascii')}\n"
+            f"fingerprint: {key.fingerprint}\n"
+            f"signature: {_sign(key, manifest.read_bytes())}\n")
+    target.write_text(text, encoding="utf-8")
+    return target
+
+
+@dataclass
+class SiteReport:
+    """What ``verify`` found: every mismatch, and what was checked."""
+
+    kind: Literal["site", "job"]
+    checked: int = 0
+    problems: list[str] = field(default_factory=list)
+    notes: list[str] = field(default_factory=list)
+
+    @property
+    def ok(self) -> bool:
+        return not self.problems
+
+
+def _verify_manifest_signature(site: Path, report: SiteReport,
+                               trusted: set[bytes] | None) -> None:
+    signature_file = site / MANIFEST_SIGNATURE_NAME
+    if not signature_file.is_file():
+        if trusted is not None:
+            report.problems.append(f"{MANIFEST_SIGNATURE_NAME}: missing, but trusted keys "
+                                   "were given")
+        else:
+            report.notes.append("the manifest is not signed (no MANIFEST.sha256.sig)")
+        return
+    fields = {}
+    for line in signature_file.read_text(encoding="utf-8").splitlines():
+        key, _, value = line.partition(":")
+        fields[key.strip()] = value.strip()
+    try:
+        raw = base64.b64decode(fields.get("public_key", ""), validate=True)
+    except ValueError:
+        raw = b""
+    manifest_bytes = (site / "MANIFEST.sha256").read_bytes()
+    if len(raw) != 32 or not _verify(raw, fields.get("signature", ""), manifest_bytes):
+        report.problems.append(f"{MANIFEST_SIGNATURE_NAME}: the signature does not verify "
+                               "the manifest")
+        return
+    shown = fingerprint(raw)
+    if trusted is not None and raw not in trusted:
+        report.problems.append(f"{MANIFEST_SIGNATURE_NAME}: signed with key {shown}, which "
+                               "is not one of the trusted keys given")
+        return
+    report.notes.append(f"manifest signature verifies (key {shown})")
+
+
+def verify_site(site: Path, trusted: Iterable[bytes] | None = None,
+                ignored: Iterable[str] = ()) -> SiteReport:
+    """Check a built site against its ``MANIFEST.sha256`` (and its signature, if present)."""
+    site = Path(site)
+    report = SiteReport("site")
+    manifest = site / "MANIFEST.sha256"
+    listed: dict[str, str] = {}
+    for number, line in enumerate(manifest.read_text(encoding="utf-8").splitlines(), 1):
+        digest, separator, name = line.partition("  ")
+        if not separator or len(digest) != 64:
+            report.problems.append(f"MANIFEST.sha256:{number}: not a sha256sum line")
+            continue
+        listed[name] = digest
+    root = site.resolve()
+    for name, digest in sorted(listed.items()):
+        path = (site / name).resolve()
+        report.checked += 1
+        if not path.is_relative_to(root):
+            report.problems.append(f"{name}: the manifest names a file outside the site")
+        elif not path.is_file():
+            report.problems.append(f"{name}: missing")
+        elif _sha256(path.read_bytes()) != digest:
+            report.problems.append(f"{name}: content differs from the manifest")
+    skip = {"MANIFEST.sha256", MANIFEST_SIGNATURE_NAME, *ignored}
+    for path in sorted(site.rglob("*")):
+        name = path.relative_to(site).as_posix()
+        # The build's own bookkeeping (.acceptance-site, .acceptance-build.json) is not
+        # part of the site and stays out of the manifest.
+        if path.name.startswith(".acceptance-") and path.parent == site:
+            continue
+        if path.is_file() and name not in listed and name not in skip:
+            report.problems.append(f"{name}: not in the manifest (added after the build)")
+    _verify_manifest_signature(site, report,
+                               set(trusted) if trusted is not None else None)
+    return report
+
+
+def verify_job(root: Path, trusted: Iterable[bytes] | None = None) -> SiteReport:
+    """Check every signed visit of the job at ``root``: digest and signature."""
+    from .loading import load_job
+
+    job = load_job(root)
+    report = SiteReport("job")
+    trusted_list = list(trusted) if trusted is not None else None
+    for machine in job.machines:
+        for visit in machine.visits:
+            status = check_visit_signatures(job, machine, visit, trusted_list)
+            if status.state == "unsigned":
+                report.notes.append(f"{machine.id}/{visit.id}: not signed")
+                continue
+            for check in status.checks:
+                report.checked += 1
+                who = f"{machine.id}/{visit.id}: {check.name} ({check.role}, {check.signed_at})"
+                if check.state in ("valid", "superseded"):
+                    key = f", key {check.fingerprint}" if check.fingerprint else ", no key"
+                    report.notes.append(f"{who}: " + ("unchanged since sign-off" if
+                                        check.state == "valid" else "superseded by a later "
+                                        "signature over the current inputs") + key)
+                    continue
+                for problem in check.problems:
+                    report.problems.append(f"{who}: {problem}")
+                for change in check.changes:
+                    report.problems.append(f"{who}: altered after sign-off: {change}")
+    return report

@@ -1,0 +1,105 @@
+"""What a supervisor reviews: the index filters' data and the deficiencies as CSV.
+
+The site opens from ``file://``, where a page may not fetch a JSON file from disk; the
+filter options therefore travel in a script file the build writes (``assets/index-data.js``),
+and each row of the index carries its own ``data-*`` attributes. Without JavaScript the index
+is the plain table.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+from collections.abc import Iterable, Mapping
+from typing import Any
+
+from ..results import JobResult, VisitState
+
+__all__ = ["INDEX_DATA_NAME", "DEFICIENCIES_CSV_NAME", "index_options", "index_data_script",
+           "deficiencies_csv", "review_globals", "verdict_counts"]
+
+INDEX_DATA_NAME = "assets/index-data.js"
+DEFICIENCIES_CSV_NAME = "deficiencies.csv"
+
+_CSV_COLUMNS = ("machine", "machine_name", "area", "visit", "date", "item", "title", "point",
+                "reading", "verdict", "severity", "signature", "link")
+
+
+def index_options(result: JobResult) -> dict[str, Any]:
+    """The choices each index filter offers, in a stable order, with how many visits match."""
+    visits = result.visits
+    areas = sorted({m.area for m in result.machines if m.area})
+    checklists: dict[str, str] = {}
+    for visit in visits:
+        for checklist in visit.checklists:
+            checklists.setdefault(checklist.id, checklist.title)
+    return {
+        "states": [{"value": state.slug, "label": state.value,
+                    "count": sum(1 for v in visits if v.state is state)}
+                   for state in VisitState],
+        "areas": [{"value": area, "label": area,
+                   "count": sum(len(m.visits) for m in result.machines if m.area == area)}
+                  for area in areas],
+        "checklists": [{"value": key, "label": f"{title} ({key})"}
+                       for key, title in sorted(checklists.items())],
+        "visits": len(visits),
+    }
+
+
+def index_data_script(result: JobResult) -> str:
+    """``assets/index-data.js``: the filter options as one assignment a page loads by <script>."""
+    payload = json.dumps(index_options(result), ensure_ascii=False, sort_keys=True, indent=1)
+    # "</" cannot end a script early when the file is loaded as a classic script; escaping it
+    # keeps a label such as "</script>" inert (HTML Living Standard, script data state).
+    payload = payload.replace("</", "<\\/")
+    return ("// Written by acceptance build: the choices of the index filters.\n"
+            f"window.acceptanceIndex = {payload};\n")
+
+
+def verdict_counts(counts: Mapping[str, int]) -> list[tuple[str, int]]:
+    """A visit's non-zero verdict counts, in the order the results list them."""
+    return [(word, count) for word, count in counts.items() if count]
+
+
+def deficiencies_csv(rows: Iterable[Mapping[str, Any]], result: JobResult,
+                     signatures: Mapping[str, Any] | None = None) -> str:
+    """The punch list as CSV with a header row (RFC 4180), one line per open point."""
+    machines = {m.id: m for m in result.machines}
+    dates = {(v.machine, v.id): v.date.isoformat() for v in result.visits}
+    buffer = io.StringIO()
+    writer = csv.writer(buffer, lineterminator="\r\n")
+    writer.writerow(_CSV_COLUMNS)
+    for row in rows:
+        machine = machines[str(row["machine"])]
+        key = f"{row['machine']}/{row['visit']}"
+        status = (signatures or {}).get(key)
+        verdict = row["verdict"]
+        writer.writerow([
+            row["machine"], machine.name, machine.area or "", row["visit"],
+            dates[(str(row["machine"]), str(row["visit"]))], row["item"], row["title"],
+            row["element"] or "", row["reading"] or "",
+            getattr(verdict, "value", verdict), row["severity"],
+            status.phrase if status is not None else "not signed",
+            f"machines/{row['machine']}/{row['visit']}.html#{row['anchor']}"])
+    return buffer.getvalue()
+
+
+def review_globals(signatures: Mapping[str, Any], package_pdf: bool) -> dict[str, Any]:
+    """Template globals for sign-off states and the index: ``signature_of(visit)`` takes a
+    visit result or a mapping with ``machine`` and ``visit``."""
+    from ..integrity import SignatureStatus
+
+    unsigned = SignatureStatus("unsigned")
+
+    def signature_of(thing: Any) -> Any:
+        if isinstance(thing, Mapping):
+            key = f"{thing['machine']}/{thing['visit']}"
+        else:
+            key = f"{thing.machine}/{thing.id}"
+        return signatures.get(key, unsigned)
+
+    return {"signature_of": signature_of, "verdict_counts": verdict_counts,
+            "altered_total": sum(1 for s in signatures.values()
+                                 if s.state in ("altered", "invalid")),
+            "package_pdf": package_pdf}
