@@ -551,9 +551,12 @@ class TrendSeries:
     limit_upper: float | None = None
 
 
-def _limits(item: ItemResult, rule: CompareRule, unit: str) -> tuple[float | None, float | None]:
+def _limits(item: ItemResult, rule: CompareRule, unit: str,
+            element_id: str | None) -> tuple[float | None, float | None]:
     bands = set()
     for element in item.elements:
+        if element.element != element_id:
+            continue
         for check in element.checks:
             if rule.check is not None and check.id != rule.check:
                 continue
@@ -611,12 +614,17 @@ def trend_series(machine_result: MachineResult) -> tuple[TrendSeries, ...]:
                 points.append(baseline_point)
                 points.sort(key=lambda p: order.index(p.visit))
                 traces.append(TrendTrace(element, tuple(points)))
-        if traces:
-            lower, upper = _limits(item, rule, unit)
+        # Elements with the same limits share a plot; others (a main and an auxiliary
+        # winding of different nominal resistance) get one each, so each keeps its band.
+        groups: dict[tuple[float | None, float | None], list[TrendTrace]] = {}
+        for trace in traces:
+            groups.setdefault(_limits(item, rule, unit, trace.element), []).append(trace)
+        for (lower, upper), members in groups.items():
+            title = item.title if len(groups) == 1 else \
+                f"{item.title} ({', '.join(str(t.element) for t in members)})"
             series.append(TrendSeries(
-                item=item.key, title=item.title,
-                quantity=quantity,
-                unit=unit, display_unit=item.unit, baseline=base.id, traces=tuple(traces),
+                item=item.key, title=title, quantity=quantity, unit=unit,
+                display_unit=item.unit, baseline=base.id, traces=tuple(members),
                 limit_lower=lower, limit_upper=upper))
     return tuple(series)
 

@@ -239,6 +239,10 @@ def _site_files(job: Job, result: JobResult, pages: list[SitePage]) -> dict[str,
         extra = {}
         if page.template == "visit.html":
             extra["plots"] = _capture_plots(env, page.context["visit"])  # type: ignore[arg-type]
+        elif page.template == "machine.html":
+            from .rendering.plots import render_machine_trends
+
+            extra["trends"] = render_machine_trends(env, page.context["machine"])
         files[page.path] = template.render(root=page.root, **page.context, **extra).encode()
     assets = templates_dir() / "assets"
     for path in sorted(assets.rglob("*")):

@@ -1,4 +1,4 @@
-"""Geometry of the capture plots: a few cycles of voltage and current, and a harmonic spectrum.
+"""Geometry of the plots: a few cycles of a capture, its harmonic spectrum, and trends over visits.
 
 Python computes coordinates, ticks and labels only; the SVG markup is in
 ``site_templates/plots/waveform.svg.j2`` and ``site_templates/plots/spectrum.svg.j2``.
@@ -9,6 +9,7 @@ become polylines, which keeps an SVG small without hiding peaks.
 
 from __future__ import annotations
 
+import datetime as _dt
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass
@@ -25,14 +26,21 @@ __all__ = [
     "SpectrumPlot",
     "Tick",
     "TracePath",
+    "TrendInput",
+    "TrendLine",
+    "TrendMarker",
+    "TrendPlot",
     "WaveformPlot",
     "decimate_min_max",
     "format_tick",
     "nice_step",
     "nice_ticks",
     "render_spectrum_svg",
+    "render_machine_trends",
+    "render_trend_svg",
     "render_waveform_svg",
     "spectrum_plot",
+    "trend_plot",
     "waveform_plot",
 ]
 
@@ -401,3 +409,222 @@ def render_spectrum_svg(env: jinja2.Environment, orders: Sequence[int],
     """SVG of :func:`spectrum_plot` (keyword arguments pass through) from its template."""
     plot = spectrum_plot(orders, percent_of_fundamental, **layout)  # type: ignore[arg-type]
     return env.get_template(SPECTRUM_TEMPLATE).render(plot=plot)
+
+
+# --------------------------------------------------------------------------- trends
+
+TREND_TEMPLATE = "plots/trend.svg.j2"
+
+# Marker shapes per trace, as well as dash patterns, so traces read in grey-scale print.
+_SHAPES = ("circle", "square", "triangle", "diamond")
+
+
+@dataclass(frozen=True)
+class TrendInput:
+    """One trace of a trend: legend label and its (date, value) points [display unit]."""
+
+    label: str
+    points: Sequence[tuple[_dt.date, float]]
+
+
+@dataclass(frozen=True)
+class TrendMarker:
+    """A point of a trend: centre [px], marker shape and its hover text."""
+
+    x: float
+    y: float
+    shape: str
+    label: str
+
+
+@dataclass(frozen=True)
+class TrendLine:
+    label: str
+    points: str
+    dash: str
+    stroke: str
+    shape: str
+    markers: tuple[TrendMarker, ...]
+
+
+@dataclass(frozen=True)
+class TrendPlot:
+    """A quantity over the visits: one line per element, the limit band and the baseline."""
+
+    width: float
+    height: float
+    title: str
+    x: float
+    y: float
+    plot_width: float
+    plot_height: float
+    y_label: str
+    x_ticks: tuple[Tick, ...]
+    y_ticks: tuple[Tick, ...]
+    lines: tuple[TrendLine, ...]
+    legend: tuple[Legend, ...]
+    band: tuple[float, float] | None  # top and bottom of the acceptable band [px]
+    limits: tuple[Tick, ...]  # each finite limit: its y [px] and label
+    baseline_x: float | None
+    baseline_label: str
+
+
+_MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
+
+
+def _month_ticks(first: _dt.date, last: _dt.date) -> list[_dt.date]:
+    """First days of months at a 1, 2, 3, 6 or 12-month step, about six across the span."""
+    months = (last.year - first.year) * 12 + last.month - first.month + 1
+    step = next((s for s in (1, 2, 3, 6, 12) if months / s <= 7), 12 * math.ceil(months / 84))
+    start = first.year * 12 + first.month - 1
+    start -= start % step
+    ticks = []
+    index = start
+    while True:
+        day = _dt.date(index // 12, index % 12 + 1, 1)
+        if day > last:
+            break
+        if day >= first:
+            ticks.append(day)
+        index += step
+    return ticks
+
+
+def trend_plot(traces: Sequence[TrendInput], *, quantity: str, unit: str,
+               lower: float | None = None, upper: float | None = None,
+               baseline: _dt.date | None = None, baseline_label: str = "baseline",
+               title: str = "", width: float = 720.0, height: float = 300.0) -> TrendPlot:
+    """Lay out a quantity over visit dates with its limit band and the baseline marked.
+
+    Parameters
+    ----------
+    traces : sequence of TrendInput
+        One per element; values in ``unit`` [unit].
+    quantity : str
+        What is plotted, for the y label (e.g. ``R at 20 °C``).
+    unit : str
+        Display unit of the values and limits.
+    lower, upper : float, optional
+        Limits of the acceptable band; either may be absent [unit].
+    baseline : datetime.date, optional
+        Date of the baseline visit, drawn as a vertical line.
+    title : str, optional
+    width, height : float, optional
+        [px].
+    """
+    points = [(day, value) for trace in traces for day, value in trace.points]
+    if not points:
+        raise ValueError("trend_plot needs at least one point")
+    left, top = _MARGIN_LEFT + 12.0, _MARGIN_TOP
+    legend_rows = len(traces) + (1 if lower is not None or upper is not None else 0) \
+        + (1 if baseline is not None else 0)
+    plot_width = width - left - _MARGIN_RIGHT
+    plot_height = height - top - _AXIS_SPACE - 14.0 * ((legend_rows + 2) // 3)
+    days = [day.toordinal() for day, _ in points]
+    if baseline is not None:
+        days.append(baseline.toordinal())
+    first_day, last_day = min(days), max(days)
+    pad = max(7.0, 0.06 * (last_day - first_day))
+    x_low, x_high = first_day - pad, last_day + pad
+    values = [value for _, value in points]
+    values += [v for v in (lower, upper) if v is not None]
+    y_low, y_high, y_values = nice_ticks(min(values), max(values), 5)
+    y_step = y_values[1] - y_values[0] if len(y_values) > 1 else 1.0
+
+    def to_x(day: float) -> float:
+        return left + plot_width * (day - x_low) / (x_high - x_low)
+
+    def to_y(value: float) -> float:
+        return top + plot_height * (1.0 - (value - y_low) / (y_high - y_low))
+
+    lines = []
+    for index, trace in enumerate(traces):
+        dash, stroke = _DASHES[index % len(_DASHES)], _GREYS[index % len(_GREYS)]
+        shape = _SHAPES[index % len(_SHAPES)]
+        ordered = sorted(trace.points)
+        markers = tuple(TrendMarker(to_x(day.toordinal()), to_y(value), shape,
+                                    f"{trace.label}: {day.isoformat()}, "
+                                    f"{format_tick(value, y_step / 100)} {unit}")
+                        for day, value in ordered)
+        lines.append(TrendLine(trace.label, " ".join(f"{m.x:.1f},{m.y:.1f}" for m in markers),
+                               dash, stroke, shape, markers))
+    band = None
+    if lower is not None or upper is not None:
+        band = (to_y(upper) if upper is not None else top,
+                to_y(lower) if lower is not None else top + plot_height)
+    limits = tuple(Tick(to_y(v), f"{label} {format_tick(v, y_step / 10)} {unit}")
+                   for label, v in (("upper limit", upper), ("lower limit", lower))
+                   if v is not None)
+    entries: list[tuple[str, str, str]] = [(line.label, line.dash, line.stroke)
+                                           for line in lines]
+    if band is not None:
+        entries.append(("acceptable band", "band", "#000000"))
+    if baseline is not None:
+        entries.append((baseline_label, "baseline", "#000000"))
+    legend_top = top + plot_height + 32.0
+    column = plot_width / 3
+    legend = tuple(Legend(label, left + column * (k % 3), left + column * (k % 3) + 26.0,
+                          legend_top + 14.0 * (k // 3), dash, stroke)
+                   for k, (label, dash, stroke) in enumerate(entries))
+    x_ticks = tuple(Tick(to_x(day.toordinal()), f"{_MONTHS[day.month - 1]} {day.year}")
+                    for day in _month_ticks(_dt.date.fromordinal(int(math.ceil(x_low))),
+                                            _dt.date.fromordinal(int(x_high))))
+    y_ticks = tuple(Tick(to_y(v), format_tick(v, y_step)) for v in y_values)
+    return TrendPlot(
+        width=width, height=height, title=title, x=left, y=top, plot_width=plot_width,
+        plot_height=plot_height, y_label=f"{quantity} [{unit}]", x_ticks=x_ticks,
+        y_ticks=y_ticks, lines=tuple(lines), legend=legend, band=band, limits=limits,
+        baseline_x=to_x(baseline.toordinal()) if baseline is not None else None,
+        baseline_label=baseline_label)
+
+
+def render_trend_svg(env: jinja2.Environment, traces: Sequence[TrendInput],
+                     **layout: object) -> str:
+    """SVG of :func:`trend_plot` (keyword arguments pass through) from its template."""
+    plot = trend_plot(traces, **layout)  # type: ignore[arg-type]
+    return env.get_template(TREND_TEMPLATE).render(plot=plot)
+
+
+def _display_factor(base_unit: str, display_unit: str | None) -> tuple[str, float]:
+    """The unit to show a trend in and the base-unit value of one of it."""
+    from ..units import Dimension, UnitError, parse_quantity
+
+    try:
+        base = parse_quantity(f"1 {base_unit}", *Dimension) if base_unit else None
+        shown = parse_quantity(f"1 {display_unit}", *Dimension) if display_unit else None
+    except UnitError:
+        return base_unit, 1.0
+    if base is not None and shown is not None and shown.dimension is base.dimension:
+        return shown.unit, shown.value
+    return base_unit, 1.0
+
+
+def render_machine_trends(env: jinja2.Environment, machine: object) -> list[dict[str, object]]:
+    """One trend SVG per compared item of a machine (see :func:`acceptance.history.trend_series`).
+
+    Returns a list of ``{"item", "title", "quantity", "svg"}``, in checklist order.
+    """
+    from markupsafe import Markup
+
+    from ..history import trend_series
+
+    dates = {visit.id: visit.date for visit in machine.visits}  # type: ignore[attr-defined]
+    plots: list[dict[str, object]] = []
+    trend_series_of = trend_series(machine)  # type: ignore[arg-type]
+    for series in trend_series_of:
+        unit, factor = _display_factor(series.unit, series.display_unit)
+        split = sum(1 for other in trend_series_of if other.item == series.item) > 1
+        elements = [str(t.element) for t in series.traces] if split else []
+        traces = [TrendInput(trace.element or series.quantity,
+                             [(p.date, p.value / factor) for p in trace.points])
+                  for trace in series.traces]
+        svg = render_trend_svg(
+            env, traces, quantity=series.quantity, unit=unit,
+            lower=None if series.limit_lower is None else series.limit_lower / factor,
+            upper=None if series.limit_upper is None else series.limit_upper / factor,
+            baseline=dates.get(series.baseline), baseline_label=f"baseline {series.baseline}",
+            title=f"{series.item}" + (f" ({', '.join(elements)})" if elements else ""))
+        plots.append({"item": series.item, "title": series.title,
+                      "anchor": f"{series.item}-{'-'.join(str(t.element) for t in series.traces)}",
+                      "quantity": series.quantity, "svg": Markup(svg)})
+    return plots
