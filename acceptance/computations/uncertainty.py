@@ -64,7 +64,10 @@ __all__ = [
 
 def _format_number(value: float) -> str:
     """Shortest positional text that reads back as the same float (no exponent)."""
-    return str(np.format_float_positional(float(value), trim="-"))
+    text = repr(float(value))
+    if "e" in text or "n" in text:  # exponent form, inf or nan: let numpy write it out
+        return str(np.format_float_positional(float(value), trim="-"))
+    return text[:-2] if text.endswith(".0") else text
 
 
 def _format_significant(value: float, digits: int = 2) -> str:

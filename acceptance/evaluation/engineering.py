@@ -8,6 +8,8 @@ the table and the clause, so the record says which one was used.
 
 from __future__ import annotations
 
+import functools
+
 from ..computations import resistance, temperature_rise
 from ..computations.resistance import ConductorConstant
 from ..computations.temperature_rise import RiseLimit
@@ -16,6 +18,7 @@ __all__ = ["ConductorConstant", "RiseLimit", "limit_source", "resistance_at_temp
            "rise_by_resistance", "rise_limit", "temperature_constant"]
 
 
+@functools.lru_cache(maxsize=64)
 def temperature_constant(material: str, standard: str) -> ConductorConstant:
     """The conductor constant ``k`` that ``standard`` adopts for ``material``."""
     return resistance.conductor_constant(material, standard)

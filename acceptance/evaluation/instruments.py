@@ -10,6 +10,7 @@ average-responding instrument where true RMS is needed is flagged.
 
 from __future__ import annotations
 
+import functools
 from dataclasses import dataclass
 
 from ..computations import ComputationError
@@ -72,6 +73,11 @@ def _entry_for(instrument: Instrument, reading: Quantity,
     return min(fitting, key=lambda c: float("inf") if c[1] is None else c[1].value)
 
 
+@functools.lru_cache(maxsize=1024)
+def _specification(text: str) -> unc.AccuracySpec:
+    return unc.parse_accuracy_specification(text)
+
+
 def reading_uncertainty(instrument: Instrument | None, reading: Quantity,
                         chosen_range: Quantity | None,
                         coverage_factor: float) -> ReadingUncertainty | str:
@@ -86,7 +92,7 @@ def reading_uncertainty(instrument: Instrument | None, reading: Quantity,
         return f"the register gives no accuracy for {instrument.id} on this function"
     entry, full_scale = found
     unit = entry.measures
-    specification = unc.parse_accuracy_specification(entry.accuracy)
+    specification = _specification(entry.accuracy)
     resolution = (parse_quantity(entry.resolution, reading.dimension).in_unit(unit)
                   if entry.resolution else None)
     try:
