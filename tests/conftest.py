@@ -133,6 +133,13 @@ def write_job(root: Path, *, job: Any = None, instruments: Any = None, machine: 
     return root
 
 
+@pytest.fixture(autouse=True)
+def _private_cache(tmp_path_factory: pytest.TempPathFactory,
+                   monkeypatch: pytest.MonkeyPatch) -> None:
+    """Keep check's output cache out of the user's home and apart between tests."""
+    monkeypatch.setenv("XDG_CACHE_HOME", str(tmp_path_factory.mktemp("cache")))
+
+
 @pytest.fixture
 def make_job(tmp_path: Path) -> Callable[..., Path]:
     """``make_job(**parts)`` writes a job folder named ``job`` under ``tmp_path``."""

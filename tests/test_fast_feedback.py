@@ -158,3 +158,23 @@ def test_help(command, capsys):
     with pytest.raises(SystemExit) as caught:
         main([command, "--help"])
     assert caught.value.code == 0
+
+
+def test_check_reprints_its_output_until_an_input_changes(make_job, capsys):
+    root = make_job(visit={"readings": {"supply": {"frequency": "50.0 Hz"}}})
+    first = main(["check", str(root)]), capsys.readouterr()
+    again = main(["check", str(root)]), capsys.readouterr()
+    assert again[0] == first[0] and again[1].out == first[1].out
+    visit = root / "machines" / "m1" / "visits" / "v1.yaml"
+    visit.write_text(visit.read_text(encoding="utf-8").replace("50.0 Hz", "55.0 Hz"),
+                     encoding="utf-8")
+    changed = main(["check", str(root)]), capsys.readouterr()
+    assert changed[1].out != first[1].out
+    assert "55.0 Hz" in changed[1].out  # the new reading, now failing, is listed
+
+
+def test_check_cache_is_not_consulted_on_input_errors(make_job, capsys):
+    root = make_job(visit={"readings": {"supply": {"frequency": "50,0 Hz"}}})
+    assert main(["check", str(root)]) == 2
+    assert main(["check", str(root)]) == 2
+    assert capsys.readouterr().err.count("uses a comma") == 2

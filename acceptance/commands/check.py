@@ -1,23 +1,34 @@
-"""``acceptance check JOB``: evaluate and print a summary; exit 0 only when every visit passes."""
+"""``acceptance check JOB``: evaluate and print a summary; exit 0 only when every visit passes.
+
+While no input has changed, the output of the last check is printed again without loading
+anything (see :mod:`acceptance.check_cache`); the heavy modules are imported only on a miss.
+"""
 
 from __future__ import annotations
 
 import argparse
+import io
 import json
+import os
 import sys
 from pathlib import Path
+from typing import TYPE_CHECKING
 
-from ..evaluation import evaluate_job
-from ..loading import load_job
-from ..results import JobResult, Verdict, VisitState, to_json
+if TYPE_CHECKING:
+    from ..results import JobResult
 
-_MARK = {
-    Verdict.PASS: "✓", Verdict.CONDITIONAL_PASS: "≈✓", Verdict.CONDITIONAL_FAIL: "≈✗",
-    Verdict.FAIL: "✗", Verdict.UNDETERMINED: "?", Verdict.NOT_TESTED: "○",
-    Verdict.NOT_APPLICABLE: "–", Verdict.RECORDED: "·",
-}
-_STATE_MARK = {VisitState.PASS: "✓", VisitState.PASS_WITH_DEFICIENCIES: "!",
-               VisitState.INCOMPLETE: "○", VisitState.FAIL: "✗"}
+
+def _marks() -> tuple[dict, dict]:
+    from ..results import Verdict, VisitState
+
+    marks = {
+        Verdict.PASS: "✓", Verdict.CONDITIONAL_PASS: "≈✓", Verdict.CONDITIONAL_FAIL: "≈✗",
+        Verdict.FAIL: "✗", Verdict.UNDETERMINED: "?", Verdict.NOT_TESTED: "○",
+        Verdict.NOT_APPLICABLE: "–", Verdict.RECORDED: "·",
+    }
+    states = {VisitState.PASS: "✓", VisitState.PASS_WITH_DEFICIENCIES: "!",
+              VisitState.INCOMPLETE: "○", VisitState.FAIL: "✗"}
+    return marks, states
 
 
 def register(parser: argparse.ArgumentParser) -> None:
@@ -29,6 +40,9 @@ def register(parser: argparse.ArgumentParser) -> None:
 
 
 def summary_lines(result: JobResult, show_all: bool = False) -> list[str]:
+    from ..results import Verdict, VisitState
+
+    _MARK, _STATE_MARK = _marks()  # noqa: N806 - tables, read like constants
     lines = [f"{result.title} — {result.site}"]
     for machine in result.machines:
         lines.append("")
@@ -73,22 +87,47 @@ def summary_lines(result: JobResult, show_all: bool = False) -> list[str]:
 
 
 def run(args: argparse.Namespace) -> int:
+    from .. import check_cache
+
+    variant = "json" if args.json else ("all" if args.all else "summary")
+    use_cache = not os.environ.get("ACCEPTANCE_NO_CACHE")
+    key = check_cache.fingerprint(args.job) if use_cache else None
+    cached = check_cache.load(args.job, key, variant) if key else None
+    if cached is not None:
+        code, text = cached
+        out, _, err = text.partition("\0")
+        sys.stdout.write(out)
+        sys.stderr.write(err)
+        return code
+    out, err = io.StringIO(), io.StringIO()
+    code = _evaluate_and_print(args, out, err)
+    sys.stdout.write(out.getvalue())
+    sys.stderr.write(err.getvalue())
+    if key:
+        check_cache.store(args.job, key, variant, code, out.getvalue() + "\0" + err.getvalue())
+    return code
+
+
+def _evaluate_and_print(args: argparse.Namespace, out: io.StringIO, err: io.StringIO) -> int:
+    from ..evaluation import evaluate_job
+    from ..loading import load_job
+    from ..results import VisitState, to_json
+
     job = load_job(args.job)
     result = evaluate_job(job)
     if args.json:
-        json.dump(to_json(result), sys.stdout, ensure_ascii=False, indent=2)
-        sys.stdout.write("\n")
+        json.dump(to_json(result), out, ensure_ascii=False, indent=2)
+        out.write("\n")
     else:
-        print("\n".join(summary_lines(result, args.all)))
-    altered = _report_signatures(job, to_stderr=args.json)
+        print("\n".join(summary_lines(result, args.all)), file=out)
+    altered = _report_signatures(job, err if args.json else out)
     return 0 if all(v.state is VisitState.PASS for v in result.visits) and not altered else 1
 
 
-def _report_signatures(job: object, to_stderr: bool) -> int:
+def _report_signatures(job: object, stream: io.StringIO) -> int:
     """Print each signed visit's sign-off state; return how many were altered after it."""
     from ..integrity import signature_statuses
 
-    stream = sys.stderr if to_stderr else sys.stdout
     altered = 0
     for key, status in signature_statuses(job).items():  # type: ignore[arg-type]
         if status.state == "unsigned":
