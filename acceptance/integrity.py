@@ -424,8 +424,9 @@ class SignatureStatus:
 
     @property
     def reasons(self) -> list[str]:
-        return [text for check in self.checks if check.state in ("altered", "invalid")
-                for text in (*check.problems, *check.changes)]
+        return list(dict.fromkeys(text for check in self.checks
+                                  if check.state in ("altered", "invalid")
+                                  for text in (*check.problems, *check.changes)))
 
 
 def _describe_changes(entry: SignatureEntry, current: dict[str, str],

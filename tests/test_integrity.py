@@ -323,3 +323,22 @@ def test_an_altered_visit_is_marked_on_every_page_where_it_appears(built_site, t
     assert "visit file job/machines/m1/visits/v1.yaml changed" in visit_page
     assert "altered after sign-off" in (site / "deficiencies.csv").read_text(encoding="utf-8") \
         or "v1" not in (site / "deficiencies.csv").read_text(encoding="utf-8")
+
+
+def test_the_demo_shows_a_signed_record(tmp_path):
+    from tests.conftest import DEMO_JOB
+
+    demo_key = load_public_key(DEMO_JOB / "keys" / "demo-signing.key.pub")
+    job = load_job(DEMO_JOB)
+    machine = next(m for m in job.machines if m.id == "press-brake-1")
+    visit = next(v for v in machine.visits if v.id == "2026-03-10-commissioning")
+    status = check_visit_signatures(job, machine, visit, [demo_key])
+    # Its signature verifies with the demo key; were the demo changed since, the record says
+    # so ("altered"), and demo_job/keys/README.md says how to sign it again.
+    assert status.state in ("signed", "altered"), status.reasons
+    assert status.checks[-1].name == "M. Quillfeather"
+    site = tmp_path / "site"
+    build_site(DEMO_JOB, site, with_pdf=False)
+    page = (site / "machines/press-brake-1/2026-03-10-commissioning.html").read_text(
+        encoding="utf-8")
+    assert "Signed records" in page and status.checks[-1].fingerprint in page
