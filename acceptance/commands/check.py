@@ -118,9 +118,12 @@ def _evaluate_and_print(args: argparse.Namespace, out: io.StringIO, err: io.Stri
     if args.json:
         json.dump(to_json(result), out, ensure_ascii=False, indent=2)
         out.write("\n")
+        altered = _report_signatures(job, err)
     else:
-        print("\n".join(summary_lines(result, args.all)), file=out)
-    altered = _report_signatures(job, err if args.json else out)
+        lines = summary_lines(result, args.all)
+        print("\n".join(lines[:-1]), file=out)
+        altered = _report_signatures(job, out)
+        print(lines[-1], file=out)  # the totals stay the last line
     return 0 if all(v.state is VisitState.PASS for v in result.visits) and not altered else 1
 
 
