@@ -1,7 +1,8 @@
 """Geometry of the plots: a few cycles of a capture, its harmonic spectrum, and trends over visits.
 
 Python computes coordinates, ticks and labels only; the SVG markup is in
-``site_templates/plots/waveform.svg.j2`` and ``site_templates/plots/spectrum.svg.j2``.
+``site_templates/plots/waveform.svg.j2``, ``site_templates/plots/spectrum.svg.j2`` and
+``site_templates/plots/trend.svg.j2``.
 Traces differ by dash pattern as well as by grey level, so a plot reads in grey-scale
 print. Long captures are reduced to the minimum and maximum per pixel column before they
 become polylines, which keeps an SVG small without hiding peaks.
