@@ -44,6 +44,8 @@ from .errors import InputError, Problem
 
 __all__ = [
     "CAPTURE_SCHEMA",
+    "MAX_CAPTURE_BYTES",
+    "MAX_CAPTURE_ROWS",
     "CaptureAnalysis",
     "CaptureData",
     "ChannelAnalysis",
@@ -55,6 +57,12 @@ __all__ = [
 ]
 
 CAPTURE_SCHEMA = "acceptance-capture/1"
+
+#: A capture is read whole into memory (8 bytes per sample and column, twice over while
+#: scaling): 200 MiB of CSV is about ten million rows of three columns, beyond any record
+#: a commissioning check needs (a few cycles are plotted; a few seconds are analysed).
+MAX_CAPTURE_BYTES = 200 * 1024 * 1024
+MAX_CAPTURE_ROWS = 5_000_000
 
 # Problems past this many are summarised in one line; a file with a systematic fault
 # would otherwise bury the first, most useful messages.
@@ -420,9 +428,17 @@ def read_capture(path: str | Path, channels: Sequence[str] | None = None,
     """
     source = str(path)
     try:
+        size = Path(path).stat().st_size
+        if size > MAX_CAPTURE_BYTES:
+            raise InputError.single(
+                source, f"the capture is {size} bytes; the limit is {MAX_CAPTURE_BYTES} bytes: "
+                        "export a shorter span or a lower sample rate")
         raw = Path(path).read_bytes()
     except OSError as error:
         raise InputError.single(source, f"cannot read the capture: {error.strerror}") from None
+    if raw.startswith((codecs.BOM_UTF16_LE, codecs.BOM_UTF16_BE)):
+        raise InputError.single(source, "the capture is saved as UTF-16; export it as UTF-8 "
+                                        "(or ASCII) CSV")
     # Only the header is decoded here; the body goes to numpy's C parser untouched, and is
     # decoded in Python only when that parser refuses it and a precise message is needed.
     position = len(codecs.BOM_UTF8) if raw.startswith(codecs.BOM_UTF8) else 0
@@ -432,12 +448,15 @@ def read_capture(path: str | Path, channels: Sequence[str] | None = None,
         try:
             header = raw[position:end].decode("utf-8")
         except UnicodeDecodeError:
-            raise InputError.single(source, "the capture is not UTF-8 text",
+            raise InputError.single(source, "the capture is not UTF-8 text; export it as "
+                                            "CSV text with a header row",
                                     line=line_number) from None
         if header.strip() and not header.lstrip().startswith("#"):
             break
         if end >= len(raw):
-            raise InputError.single(source, "the capture has no header row", line=line_number)
+            raise InputError.single(source, "the capture has no header row; the first line "
+                                            "that is not a '#' comment must name the columns, "
+                                            "e.g. time_s,CH1,CH2", line=line_number)
         position = _next_line(raw, end)
         line_number += 1
     header_line = line_number
@@ -469,6 +488,11 @@ def read_capture(path: str | Path, channels: Sequence[str] | None = None,
     while content_end > body_start and raw[content_end - 1] in b" \t\r\n":
         content_end -= 1
     expected_rows = raw.count(b"\n", body_start, content_end) + 1 if content_end > body_start else 0
+    if expected_rows > MAX_CAPTURE_ROWS:
+        raise InputError.single(
+            source, f"the capture has {expected_rows} data rows; the limit is "
+                    f"{MAX_CAPTURE_ROWS}: export a shorter span or a lower sample rate",
+            line=header_line)
     data: NDArray[np.float64] | None = None
     # Blank lines are skipped by numpy and not counted towards max_rows, so a file holding
     # any reads short here and goes to the line-by-line parse, which keeps true line numbers.

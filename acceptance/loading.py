@@ -31,6 +31,7 @@ from .model import (
 )
 from .resources import checklists_dir
 from .units import Dimension, Quantity, UnitError, parse_quantity
+from .units import unit_dimension as _unit_dimension
 from .yamlfile import Document, KeyPath, format_key_path, load_yaml
 
 __all__ = [
@@ -46,6 +47,13 @@ MAX_MACHINES = 2000
 MAX_VISITS_PER_MACHINE = 200
 
 _UNVALIDATED: Any = None  # placeholder for an instrument whose entry has problems
+
+
+class _UnreadRegister(dict[str, Instrument]):
+    """Stands for a register that could not be read: it may hold any id."""
+
+    def __contains__(self, key: object) -> bool:
+        return True
 
 _CONFIRM_TRUE = {"yes", "y", "done", "confirmed", "true"}
 _CONFIRM_FALSE = {"no", "n", "not done", "false"}
@@ -122,8 +130,7 @@ class Job:
 
 
 def unit_dimension(unit: str) -> Dimension:
-    quantity = parse_quantity(f"1 {unit}", *Dimension)
-    return quantity.dimension
+    return _unit_dimension(unit)
 
 
 def element_names(kind: str, nameplate: Nameplate, survey_ids: list[str],
@@ -192,11 +199,42 @@ def _fields_at(model: type[BaseModel], loc: tuple[Any, ...]) -> list[str]:
     return []
 
 
+# Pydantic's type errors in the words of the file: what was expected, what was written.
+_TYPE_WORDS = {
+    "string_type": "text", "model_type": "a mapping of fields", "dict_type": "a mapping",
+    "list_type": "a list", "int_type": "a whole number", "int_parsing": "a whole number",
+    "int_from_float": "a whole number", "float_type": "a number", "float_parsing": "a number",
+    "bool_type": "true or false", "bool_parsing": "true or false",
+}
+_BOUND_WORDS = {"greater_than": "greater than", "greater_than_equal": "at least",
+                "less_than": "less than", "less_than_equal": "at most"}
+
+
+def _got(value: Any) -> str:
+    if value is None:
+        return "nothing (the value is empty)"
+    if isinstance(value, bool):
+        return str(value).lower()
+    if isinstance(value, dict):
+        return "a mapping"
+    if isinstance(value, list):
+        return "a list"
+    if isinstance(value, int | float):
+        return f"the number {value!r}"
+    text = str(value)
+    return repr(text if len(text) <= 60 else text[:57] + "...")
+
+
 def _validate(model: type[BaseModel], document: Document, problems: list[Problem]) -> Any:
     data = document.data
     if not isinstance(data, dict):
-        problems.append(document.problem((), "the file must hold a mapping of fields "
-                                         f"({', '.join(list(model.model_fields)[:4])}, …)"))
+        fields = ", ".join(list(model.model_fields)[:4])
+        if data is None:
+            message = f"the file is empty; write its fields ({fields}, …)"
+        else:
+            message = (f"the file holds {_got(data)}; it must hold a mapping of fields "
+                       f"({fields}, …), one 'name: value' per line")
+        problems.append(document.problem((), message))
         return None
     try:
         return model.model_validate(data)
@@ -219,15 +257,38 @@ def _validate(model: type[BaseModel], document: Document, problems: list[Problem
                            f"for example {loc[-1]}: [R. Name]" if loc and loc[-1] ==
                            "performed_by" else
                            f"needs at least {wanted} entr{'y' if wanted == 1 else 'ies'}")
-            elif kind == "literal_error":
+            elif kind in ("literal_error", "enum"):
                 expected = detail.get("ctx", {}).get("expected", "")
                 message = f"{detail['input']!r} is not allowed; use one of {expected}"
+                options = [o.strip("'") for o in expected.replace(" or ", ", ").split(", ")]
+                close = difflib.get_close_matches(str(detail["input"]), options, n=1,
+                                                  cutoff=0.6)
+                if not close:
+                    close = [o for o in options
+                             if o.lower() == str(detail["input"]).lower()][:1]
+                if close and close[0] != str(detail["input"]):
+                    message += f"; did you mean '{close[0]}'?"
+            elif kind == "string_too_long":
+                wanted = detail.get("ctx", {}).get("max_length", "")
+                message = (f"{_got(detail['input'])} is longer than {wanted} characters; "
+                           "shorten it")
             elif kind == "string_pattern_mismatch" and loc and loc[-1] == "category":
                 message = (f"{detail['input']!r} is not a measurement category; write it as "
                            f"'CAT III 600 V' (IEC 61010-1)")
             elif kind == "string_pattern_mismatch":
                 message = (f"{detail['input']!r} is not a valid id; use lower-case letters, "
                            f"digits, '-' and '_'")
+            elif kind in _TYPE_WORDS:
+                message = f"expected {_TYPE_WORDS[kind]}, got {_got(detail.get('input'))}"
+                if kind in ("model_type", "dict_type"):
+                    fields = _fields_at(model, loc)
+                    if fields:
+                        message += f"; write its fields ({', '.join(fields[:4])}, …)"
+                elif kind == "string_type" and isinstance(detail.get("input"), int | float):
+                    message += f"; quote it if it is meant as text: '{detail['input']}'"
+            elif kind in _BOUND_WORDS:
+                bound = next(iter(detail.get("ctx", {}).values()), "")
+                message = f"must be {_BOUND_WORDS[kind]} {bound}, got {_got(detail['input'])}"
             else:
                 message = detail["msg"][:1].lower() + detail["msg"][1:]
                 if "input" in detail and not isinstance(detail["input"], dict | list):
@@ -271,12 +332,14 @@ def _load_checklists(root: Path, problems: list[Problem]) -> dict[str, LoadedChe
         for index, item in enumerate(model.items):
             if item.id in seen:
                 problems.append(document.problem(("items", index, "id"),
-                                                 f"item id '{item.id}' is used twice"))
+                                                 f"item id '{item.id}' is used twice; give "
+                                                 "each item its own id"))
             seen.add(item.id)
             if item.record == "quantity":
                 if not item.unit:
                     problems.append(document.problem(("items", index),
-                                                     "a quantity item needs a 'unit'"))
+                                                     "a quantity item needs a 'unit', e.g. "
+                                                     "unit: V"))
                 else:
                     try:
                         unit_dimension(item.unit)
@@ -366,7 +429,8 @@ def _check_rules(model: Checklist, document: Document, problems: list[Problem]) 
                     (*path, "rule"),
                     f"unknown rule '{check.rule}'{_suggest(check.rule, sorted(RULES))}"))
                 continue
-            for message in rule.validate_params(check.params, item):
+            for message in [*rule.validate_params(check.params, item),
+                            *_bounds_order(check.params)]:
                 problems.append(document.problem((*path, "params"), message))
             fixed = _FIXED_ELEMENTS.get(item.per)
             if check.element is not None and fixed is not None and check.element not in fixed:
@@ -374,6 +438,20 @@ def _check_rules(model: Checklist, document: Document, problems: list[Problem]) 
                     (*path, "element"),
                     f"'{check.element}' is not a {item.per.replace('_', ' ')}"
                     f"{_suggest(check.element, list(fixed))}"))
+
+
+def _bounds_order(params: dict[str, Any]) -> list[str]:
+    """A window whose lower bound lies above its upper bound passes nothing; say so."""
+    if "lower" not in params or "upper" not in params:
+        return []
+    try:
+        lower = parse_quantity(params["lower"], *Dimension)
+        upper = parse_quantity(params["upper"], *Dimension)
+    except UnitError:
+        return []  # reported by the rule's own parameter checks
+    if lower.dimension is upper.dimension and lower.value > upper.value:
+        return [f"lower ({lower.text}) is above upper ({upper.text}); swap them"]
+    return []
 
 
 # Element names that do not depend on the machine, for checking a check's 'element'.
@@ -423,7 +501,11 @@ def _parse_reading(item: ChecklistItem, checklist_id: str, element: str | None, 
             return None
         value_raw = raw.get("value")
         value_path = (*path, "value")
-        if raw.get("instrument") is not None:
+        if raw.get("instrument") is not None and not isinstance(raw["instrument"], str):
+            problems.append(document.problem(
+                (*path, "instrument"), f"expected an instrument id from instruments.yaml, "
+                                       f"got {_got(raw['instrument'])}"))
+        elif raw.get("instrument") is not None:
             instrument = str(raw["instrument"])
             if instrument not in instruments:
                 problems.append(document.problem(
@@ -431,7 +513,18 @@ def _parse_reading(item: ChecklistItem, checklist_id: str, element: str | None, 
                     f"instrument '{instrument}' is not in instruments.yaml"
                     f"{_suggest(instrument, sorted(instruments))}"))
         note = raw.get("note")
-        if raw.get("capture") is not None:
+        if isinstance(note, int | float) and not isinstance(note, bool):
+            note = str(note)
+        elif note is not None and not isinstance(note, str):
+            problems.append(document.problem(
+                (*path, "note"), f"a note is text, got {_got(note)}; quote it if it holds "
+                                 "': ' or starts with '[' or '{'"))
+            note = None
+        if raw.get("capture") is not None and item.record != "quantity":
+            problems.append(document.problem(
+                (*path, "capture"), "a capture belongs to a measured quantity; this item "
+                                    "records a confirmation (list it under attachments)"))
+        elif raw.get("capture") is not None:
             capture_holder.append(_load_capture(raw["capture"], (*path, "capture"), visit,
                                                 problems))
         if raw.get("range") is not None and item.unit:
@@ -501,11 +594,15 @@ def _load_capture(raw: Any, path: KeyPath, visit: LoadedVisit, problems: list[Pr
     machine_folder = visit.path.parent.parent
     relative = Path(str(raw["file"]))
     resolved = (machine_folder / relative).resolve()
-    if (relative.is_absolute() or ".." in relative.parts
-            or not resolved.is_relative_to(machine_folder.resolve())):
+    if relative.is_absolute() or ".." in relative.parts:
         problems.append(document.problem(
             (*path, "file"), f"'{raw['file']}' leaves the machine folder; captures must sit "
                              "inside it (write a path relative to the machine folder)"))
+        return None
+    if not resolved.is_relative_to(machine_folder.resolve()):
+        problems.append(document.problem(
+            (*path, "file"), f"'{raw['file']}' resolves outside the machine folder (a link?); "
+                             "copy the file into the machine folder"))
         return None
     if not resolved.is_file():
         problems.append(document.problem(
@@ -528,7 +625,9 @@ def _load_capture(raw: Any, path: KeyPath, visit: LoadedVisit, problems: list[Pr
                                    current_channel=raw.get("current"),
                                    time_column=raw.get("time_column"))
     except InputError as error:
-        problems.extend(error.problems)
+        # Problems name the file as the job names it, never by this computer's absolute path.
+        shown = (Path(document.display_name).parent.parent / relative).as_posix()
+        problems.extend(dataclasses.replace(p, file=shown) for p in error.problems)
         return None
     # Records name the file as the job names it, never by this computer's absolute path.
     display = Path(document.display_name).parent.parent / relative
@@ -632,7 +731,8 @@ def load_job(root: Path, include_visits: bool = True) -> Job:
                 if instrument.id in instruments:
                     problems.append(instruments_document.problem(
                         ("instruments", index, "id"),
-                        f"instrument id '{instrument.id}' is used twice"))
+                        f"instrument id '{instrument.id}' is used twice; give "
+                        "each instrument its own id"))
                 _check_accuracy(instrument, index, instruments_document, problems)
                 if (instrument.calibrated and instrument.calibration_due
                         and instrument.calibration_due < instrument.calibrated):
@@ -641,11 +741,20 @@ def load_job(root: Path, include_visits: bool = True) -> Job:
                         "calibration_due is before calibrated; check the dates"))
                 instruments[instrument.id] = instrument
 
-    if instruments_document is not None and len(instruments) == 0:
+    if (root / INSTRUMENTS_FILE).is_file() and (
+            instruments_document is None or not isinstance(instruments_document.data, dict)
+            or not isinstance(instruments_document.data.get("instruments"), list)):
+        # The register cannot be read: which ids it holds is unknown, so no reading is
+        # reported as naming an unknown instrument on top of the register's own problem.
+        instruments = _UnreadRegister()
+    elif instruments_document is not None and len(instruments) == 0:
         # The register did not validate: still know its ids, so readings that name them are
         # not reported a second time as unknown instruments.
         raw = instruments_document.data if isinstance(instruments_document.data, dict) else {}
-        for entry in raw.get("instruments") or []:
+        entries = raw.get("instruments") or []
+        if any(not (isinstance(e, dict) and isinstance(e.get("id"), str)) for e in entries):
+            instruments = _UnreadRegister()  # an entry without a readable id may be any
+        for entry in entries:
             if isinstance(entry, dict) and isinstance(entry.get("id"), str):
                 instruments.setdefault(entry["id"], _UNVALIDATED)
 
@@ -716,7 +825,8 @@ def _check_overrides(job: JobFile, document: Document, checklists: dict[str, Loa
                 f"{_suggest(override.check, known)}"))
             continue
         merged = {**check.params, **override.params}
-        for message in RULES[check.rule].validate_params(merged, item):
+        for message in [*RULES[check.rule].validate_params(merged, item),
+                        *_bounds_order(merged)]:
             problems.append(document.problem((*path, "params"), message))
 
 
@@ -742,17 +852,23 @@ def _load_machines(root: Path, checklists: dict[str, LoadedChecklist],
             continue
         document = _load_document(machine_path, root, problems)
         model = _validate(MachineFile, document, problems) if document else None
-        if model is None or document is None:
-            continue
-        machine = LoadedMachine(id=folder.name, folder=folder, document=document, model=model)
-        _check_machine(machine, checklists, problems)
         visits_root = folder / VISITS_DIR
         visit_paths = (sorted(visits_root.glob("*.yaml"))
                        if visits_root.is_dir() and include_visits else [])
         if len(visit_paths) > MAX_VISITS_PER_MACHINE:
-            problems.append(document.problem((), f"{len(visit_paths)} visits; the limit is "
-                                                 f"{MAX_VISITS_PER_MACHINE} per machine"))
+            problems.append(Problem(
+                _display(visits_root, root), 1, 1, "",
+                f"{len(visit_paths)} visits; the limit is {MAX_VISITS_PER_MACHINE} per "
+                "machine: split the record, or move old visits out of the job"))
             visit_paths = []
+        if model is None or document is None:
+            # Every problem at once: the visits are still checked on their own, so fixing the
+            # machine file does not uncover a second round of problems in them.
+            for visit_path in visit_paths:
+                _check_visit_alone(visit_path, folder, root, instruments, problems)
+            continue
+        machine = LoadedMachine(id=folder.name, folder=folder, document=document, model=model)
+        _check_machine(machine, checklists, problems)
         for visit_path in visit_paths:
             visit_document = _load_document(visit_path, root, problems)
             visit_model = (_validate(VisitFile, visit_document, problems)
@@ -764,7 +880,7 @@ def _load_machines(root: Path, checklists: dict[str, LoadedChecklist],
             _parse_readings(visit, machine, checklists, instruments, problems)
             _parse_readings(visit, machine, checklists, instruments, problems, "as_left")
             _check_parts(visit, machine, checklists, problems)
-            _check_attachments(visit, machine, problems)
+            _check_attachments(visit, machine.folder, problems)
             machine.visits.append(visit)
         _load_signatures(machine, root, problems)
         machine.visits.sort(key=lambda v: (v.model.date, v.id))
@@ -806,14 +922,18 @@ def _check_machine(machine: LoadedMachine, checklists: dict[str, LoadedChecklist
                 ("checklists", index),
                 f"no checklist '{checklist_id}'{_suggest(checklist_id, sorted(checklists))}"))
     nameplate = machine.model.nameplate
-    for kind, entries in (("winding", nameplate.windings), ("capacitor", nameplate.capacitors),
-                          ("survey point", machine.model.survey_points),
-                          ("bonding point", machine.model.bonding_points)):
-        seen: set[str] = set()
-        for entry in entries:
+    for kind, where, entries in (
+            ("winding", ("nameplate", "windings"), nameplate.windings),
+            ("capacitor", ("nameplate", "capacitors"), nameplate.capacitors),
+            ("survey point", ("survey_points",), machine.model.survey_points),
+            ("bonding point", ("bonding_points",), machine.model.bonding_points)):
+        seen: dict[str, int] = {}
+        for index, entry in enumerate(entries):
             if entry.id in seen:
-                problems.append(document.problem((), f"{kind} id '{entry.id}' is used twice"))
-            seen.add(entry.id)
+                problems.append(document.problem(
+                    (*where, index, "id"), f"{kind} id '{entry.id}' is used twice (first as "
+                                           f"entry {seen[entry.id] + 1}); give each its own id"))
+            seen.setdefault(entry.id, index)
     from .evaluation.capacitor_codes import tolerance_window_error
 
     for index, capacitor in enumerate(nameplate.capacitors):
@@ -878,7 +998,9 @@ def _check_parts(visit: LoadedVisit, machine: LoadedMachine,
         if part.element is not None and part.element not in elements:
             problems.append(visit.document.problem(
                 (*path, "element"), f"'{part.element}' is not an element of this machine"
-                                    f"{_suggest(part.element, elements)}"))
+                                    + (_suggest(part.element, elements) if elements else
+                                       "; its machine.yaml names no windings, capacitors, "
+                                       "survey or bonding points")))
         for number, key in enumerate(part.items):
             if key not in keys:
                 problems.append(visit.document.problem(
@@ -886,9 +1008,32 @@ def _check_parts(visit: LoadedVisit, machine: LoadedMachine,
                     f"no checklist item '{key}' for this machine{_suggest(key, keys)}"))
 
 
-def _check_attachments(visit: LoadedVisit, machine: LoadedMachine,
+def _check_visit_alone(path: Path, machine_folder: Path, root: Path,
+                       instruments: dict[str, Instrument], problems: list[Problem]) -> None:
+    """Check a visit whose machine file has problems, as far as it can be without it."""
+    document = _load_document(path, root, problems)
+    model = _validate(VisitFile, document, problems) if document else None
+    if model is None or document is None:
+        return
+    visit = LoadedVisit(id=path.stem, machine_id=machine_folder.name, path=path,
+                        document=document, model=model)
+    if model.default_instrument and model.default_instrument not in instruments:
+        problems.append(document.problem(
+            ("default_instrument",),
+            f"instrument '{model.default_instrument}' is not in instruments.yaml"
+            f"{_suggest(model.default_instrument, sorted(instruments))}"))
+    _check_attachments(visit, machine_folder, problems)
+    for section in ("readings", "as_left"):
+        if getattr(model, section):
+            problems.append(document.problem(
+                (section,), f"not checked: the readings are read against "
+                            f"{machine_folder.name}/machine.yaml, which has problems; fix "
+                            "those and check again"))
+
+
+def _check_attachments(visit: LoadedVisit, machine_folder: Path,
                        problems: list[Problem]) -> None:
-    folder = machine.folder.resolve()
+    folder = machine_folder.resolve()
     for index, attachment in enumerate(visit.model.attachments):
         path: KeyPath = ("attachments", index, "path")
         candidate = Path(attachment.path)
@@ -897,14 +1042,14 @@ def _check_attachments(visit: LoadedVisit, machine: LoadedMachine,
                 path, f"'{attachment.path}' leaves the machine folder; attachments must sit "
                       "inside it (write a path relative to the machine folder)"))
             continue
-        resolved = (machine.folder / candidate).resolve()
+        resolved = (machine_folder / candidate).resolve()
         if not resolved.is_relative_to(folder):
             problems.append(visit.document.problem(
                 path, f"'{attachment.path}' resolves outside the machine folder (a link?); "
                       "copy the file into the machine folder"))
         elif not resolved.is_file():
             problems.append(visit.document.problem(
-                path, f"attachment '{attachment.path}' not found in {machine.folder.name}/"))
+                path, f"attachment '{attachment.path}' not found in {machine_folder.name}/"))
 
 
 def format_problem_path(path: KeyPath) -> str:  # re-exported for callers

@@ -12,6 +12,7 @@ the reading's *basis*, never silently dropped.
 from __future__ import annotations
 
 import decimal
+import functools
 import math
 import re
 from dataclasses import dataclass
@@ -26,6 +27,7 @@ __all__ = [
     "format_value",
     "parse_quantity",
     "awg_area_mm2",
+    "unit_dimension",
 ]
 
 
@@ -172,6 +174,7 @@ _QUALIFIERS: dict[str, Basis] = {
 _NUMBER = r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?"
 _QUANTITY_RE = re.compile(rf"^\s*(?P<number>{_NUMBER})\s*(?P<rest>.*?)\s*$")
 _DECIMAL_COMMA_RE = re.compile(r"^\s*[+-]?\d+,\d")
+_THOUSANDS_RE = re.compile(r"^\s*[+-]?\d{1,3}(?:,\d{3})+(?!\d)(?:\s|$)")
 _NOT_FINITE_RE = re.compile(r"^\s*[+-]?(?:nan|inf(?:inity)?)\b", re.I)
 _AWG_RE = re.compile(r"^\s*(?:(?P<a>\d{1,2}|[1-4]/0)\s*AWG|AWG\s*(?P<b>\d{1,2}|[1-4]/0))\s*$", re.I)
 
@@ -266,27 +269,56 @@ def _examples(dimension: Dimension) -> str:
 def parse_quantity(text: object, *expected: Dimension) -> Quantity:
     """Read ``text`` as a quantity of one of the ``expected`` dimensions.
 
+    Results are cached: a job repeats the same few spellings (limits, ranges, units)
+    thousands of times. Errors are not cached and raise every time.
+    """
+    if isinstance(text, str):
+        return _parse_cached(text, expected)
+    return _parse_quantity(text, *expected)
+
+
+@functools.lru_cache(maxsize=16384)
+def _parse_cached(text: str, expected: tuple[Dimension, ...]) -> Quantity:
+    return _parse_quantity(text, *expected)
+
+
+def _parse_quantity(text: object, *expected: Dimension) -> Quantity:
+    """Read ``text`` as a quantity of one of the ``expected`` dimensions.
+
     A bare number is accepted only for :attr:`Dimension.NUMBER` (and as a percentage
     when :attr:`Dimension.RATIO` is expected and no unit is written).
     """
     if isinstance(text, bool) or text is None:
+        got = "nothing" if text is None else str(text).lower()
         raise UnitError(f"expected a {_dimension_names(expected)} such as "
-                        f"'{_example_value(expected[0])}', got {text!r}")
+                        f"'{_example_value(expected[0])}', got {got}")
     if isinstance(text, int | float):
         if not math.isfinite(float(text)):
-            raise UnitError(f"{text!r} is not a finite number")
+            raise UnitError(f"{text!r} is not a finite number; write the measured value")
         if Dimension.NUMBER in expected:
             return Quantity(float(text), Dimension.NUMBER, "", None, str(text))
         raise UnitError(
             f"the number {text!r} has no unit; write it with its unit, for example "
             f"'{text} {_SI_UNIT[expected[0]]}'"
         )
+    if isinstance(text, list | tuple | dict):
+        kind = "a mapping" if isinstance(text, dict) else "a list"
+        raise UnitError(f"expected a {_dimension_names(expected)} such as "
+                        f"'{_example_value(expected[0])}', got {kind}")
     raw = str(text)
     if Dimension.AREA in expected:
         awg = _AWG_RE.match(raw)
         if awg:
             gauge = awg.group("a") or awg.group("b")
             return Quantity(awg_area_mm2(gauge), Dimension.AREA, "mm²", None, raw.strip())
+    if _THOUSANDS_RE.match(raw):
+        written = raw.strip()
+        number = written.split()[0]
+        grouped = written.replace(number, number.replace(",", ""), 1)
+        raise UnitError(
+            f"'{written}' uses a comma; write '{grouped}' if it separates thousands, or "
+            f"'{written.replace(',', '.', 1)}' if it is a decimal comma"
+        )
     if _DECIMAL_COMMA_RE.match(raw):
         raise UnitError(
             f"'{raw.strip()}' uses a comma; write the decimal separator as a point "
@@ -295,14 +327,14 @@ def parse_quantity(text: object, *expected: Dimension) -> Quantity:
     match = _QUANTITY_RE.match(raw)
     if not match:
         if _NOT_FINITE_RE.match(raw):
-            raise UnitError(f"'{raw.strip()}' is not a finite number")
+            raise UnitError(f"'{raw.strip()}' is not a finite number; write the measured value")
         raise UnitError(
             f"'{raw.strip()}' is not a {_dimension_names(expected)}; "
             f"write a number and a unit, for example '{_example_value(expected[0])}'"
         )
     value = float(match.group("number"))
     if not math.isfinite(value):
-        raise UnitError(f"'{raw.strip()}' is not a finite number")
+        raise UnitError(f"'{raw.strip()}' is not a finite number; write the measured value")
     rest = match.group("rest")
     unit_text, basis = _split_qualifier(rest)
     if unit_text == "":
@@ -313,6 +345,13 @@ def parse_quantity(text: object, *expected: Dimension) -> Quantity:
             f"{_dimension_names(expected)} ({_examples(expected[0])})"
         )
     unit_info = _UNITS.get(unit_text)
+    if unit_info is None and unit_text[:1] in "±+-" and unit_text[:1]:
+        raise UnitError(f"'{raw.strip()}': write the reading alone, e.g. "
+                        f"'{match.group('number')} {_SI_UNIT[expected[0]]}'; the instrument's "
+                        "accuracy belongs in instruments.yaml")
+    if unit_info is None and unit_text[:1].isdigit():
+        raise UnitError(f"'{raw.strip()}' holds more than one number; write one value and "
+                        f"its unit, e.g. '{match.group('number')} {_SI_UNIT[expected[0]]}'")
     if unit_info is None:
         hint = _unit_hint(unit_text, expected)
         raise UnitError(f"'{raw.strip()}': unknown unit '{unit_text}'{hint}")
@@ -330,6 +369,12 @@ def parse_quantity(text: object, *expected: Dimension) -> Quantity:
             dimension is Dimension.TEMPERATURE_DIFFERENCE
             and Dimension.TEMPERATURE in expected
         ):
+            if value >= 173.15:  # read as an absolute temperature in kelvin
+                raise UnitError(
+                    f"'{raw.strip()}' is a temperature difference; a temperature is written "
+                    f"in °C: if it is {format_number(value)} kelvin, write "
+                    f"'{format_number(value - 273.15)} °C'"
+                )
             raise UnitError(
                 f"'{raw.strip()}' is a temperature difference; a temperature is written "
                 f"in °C, for example '{format_number(value)} °C'"
@@ -342,7 +387,8 @@ def parse_quantity(text: object, *expected: Dimension) -> Quantity:
         raise UnitError(f"'{raw.strip()}' is below absolute zero (-273.15 °C)")
     quantity_value = _scaled(match.group("number"), factor)
     if abs(quantity_value) > 1e15:
-        raise UnitError(f"'{raw.strip()}' is implausibly large for a {dimension.value}")
+        raise UnitError(f"'{raw.strip()}' is implausibly large for a {dimension.value}; "
+                        "check the value and its unit")
     return Quantity(quantity_value, dimension, symbol, basis, raw.strip())
 
 
@@ -355,6 +401,24 @@ def _scaled(number: str, factor: float) -> float:
     with decimal.localcontext() as context:
         context.prec = 40
         return float(decimal.Decimal(number) * decimal.Decimal(repr(factor)))
+
+
+def unit_dimension(unit: str) -> Dimension:
+    """The dimension of a unit as a checklist or a register names it (``"V"``, ``"µF"``)."""
+    spelled = unit.strip() if isinstance(unit, str) else ""
+    if not spelled:
+        raise UnitError("no unit is given; write the unit the value is read in, e.g. 'V'")
+    info = _UNITS.get(spelled)
+    if info is None:
+        import difflib
+
+        close = difflib.get_close_matches(spelled, list(_UNITS), n=1, cutoff=0.5)
+        if not close:
+            close = [s for s in _UNITS if s.lower() == spelled.lower()]
+        hint = (f"; did you mean '{close[0]}'?" if close
+                else "; the units read are listed in the README under 'Units'")
+        raise UnitError(f"unknown unit '{spelled}'{hint}")
+    return info[0]
 
 
 def _split_qualifier(rest: str) -> tuple[str, Basis | None]:
@@ -375,12 +439,10 @@ def _unit_hint(unit_text: str, expected: tuple[Dimension, ...]) -> str:
     import difflib
 
     candidates = [s for s, (d, _f, _c) in _UNITS.items() if d in expected]
-    close = difflib.get_close_matches(unit_text, candidates, n=1, cutoff=0.5)
+    # A wrong letter case ('MV' for 'mV', 'hz') is the commonest slip; offer that first.
+    close = [c for c in candidates if c.lower() == unit_text.lower()][:1]
     if not close:
-        for candidate in candidates:
-            if candidate.lower() == unit_text.lower():
-                close = [candidate]
-                break
+        close = difflib.get_close_matches(unit_text, candidates, n=1, cutoff=0.5)
     if close:
         return f"; did you mean '{close[0]}'?"
     return f"; use one of {_examples(expected[0])}"
