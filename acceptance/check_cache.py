@@ -29,12 +29,15 @@ def _cache_file(job: Path) -> Path:
 def fingerprint(job: Path) -> str | None:
     """Digest of every input; None when the folder cannot be read (let check report it)."""
     digest = hashlib.sha256(f"acceptance {__version__}\n".encode())
+    package = Path(__file__).resolve().parent
     try:
-        for root in (Path(job), checklists_dir()):
+        # The code is an input too: an edited checkout must not print a stale result.
+        for root in (Path(job), checklists_dir(), package):
             for dirpath, dirnames, filenames in os.walk(root):
                 dirnames[:] = sorted(d for d in dirnames if not d.startswith("."))
                 for filename in sorted(filenames):
-                    if filename.startswith("."):
+                    if filename.startswith(".") or (root == package
+                                                    and not filename.endswith(".py")):
                         continue
                     path = Path(dirpath) / filename
                     digest.update(str(path.relative_to(root)).encode() + b"\0")

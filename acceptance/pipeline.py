@@ -434,6 +434,14 @@ def _render_pdfs(tasks: list[PdfTask], staging: Path, jobs: int,
     return pages
 
 
+def _file_digest(path: Path) -> str | None:
+    try:
+        with open(path, "rb") as handle:
+            return hashlib.file_digest(handle, "sha256").hexdigest()
+    except OSError:
+        return None
+
+
 def _link_or_copy(source: Path, target: Path) -> None:
     target.parent.mkdir(parents=True, exist_ok=True)
     try:
@@ -463,8 +471,11 @@ def build_site(job_root: Path, output: Path, with_pdf: bool = True,
         report.pages = len(pages)
         previous_digests, previous_keys = _previous_state(output)
         digests = {name: hashlib.sha256(data).hexdigest() for name, data in files.items()}
+        # A previous PDF is reused only if it is still the file its manifest names: one
+        # replaced in the output folder is rendered again, never carried forward.
         reusable = [t for t in tasks if previous_keys.get(t.pdf) == t.key
-                    and t.pdf in previous_digests and (output / t.pdf).is_file()]
+                    and t.pdf in previous_digests
+                    and _file_digest(output / t.pdf) == previous_digests[t.pdf]]
         expected = set(digests) | {t.pdf for t in tasks}
         if (len(reusable) == len(tasks) and set(previous_digests) == expected
                 and all(previous_digests.get(n) == d for n, d in digests.items())):

@@ -244,3 +244,15 @@ def test_rebuild_replaces_its_own_site(demo_site, tmp_path):
     assert not (previous / "stale.html").exists()
     assert (previous / "index.html").is_file()
     assert not list(previous.rglob("*.pdf"))
+
+
+def test_a_replaced_pdf_is_rendered_again_not_carried_forward(demo_site, tmp_path):
+    site = tmp_path / "site"
+    shutil.copytree(demo_site, site)
+    pdf = next(site.glob("machines/*/*.pdf"))
+    original = pdf.read_bytes()
+    pdf.unlink()
+    pdf.write_bytes(b"%PDF-1.7 not the record that was built\n")
+    report = build_site(DEMO_JOB, site, jobs=1)
+    assert not report.unchanged and report.rendered == 1
+    assert pdf.read_bytes() == original
