@@ -591,6 +591,15 @@ def _load_capture(raw: Any, path: KeyPath, visit: LoadedVisit, problems: list[Pr
         if key not in _CAPTURE_KEYS:
             problems.append(document.problem(
                 (*path, key), f"unknown field '{key}'{_suggest(key, list(_CAPTURE_KEYS))}"))
+    wrong = [key for key in ("file", "voltage", "current", "time_column")
+             if raw.get(key) is not None and not isinstance(raw[key], str)]
+    for key in wrong:
+        problems.append(document.problem(
+            (*path, key), f"expected {'a file name' if key == 'file' else 'a column name'} "
+                          f"such as {'captures/line.csv' if key == 'file' else 'CH1'}, got "
+                          f"{_got(raw[key])}"))
+    if wrong:
+        return None
     machine_folder = visit.path.parent.parent
     relative = Path(str(raw["file"]))
     resolved = (machine_folder / relative).resolve()

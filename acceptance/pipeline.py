@@ -185,6 +185,21 @@ def _exchange(staging: Path, output: Path) -> None:
     shutil.rmtree(previous)
 
 
+def _clear_leftovers(output: Path) -> None:
+    """Remove what a killed build left beside ``output``; only called under the lock.
+
+    A build killed while staging leaves ``.<name>.staging-<pid>``; one killed between the
+    two renames of the fallback exchange leaves the previous site as
+    ``.<name>.previous-<pid>`` and no ``output``, which is put back first.
+    """
+    previous = sorted(output.parent.glob(f".{output.name}.previous-*"))
+    if not output.exists() and previous:
+        os.rename(previous.pop(), output)
+    for leftover in [*output.parent.glob(f".{output.name}.staging-*"), *previous]:
+        if leftover.is_dir() and not leftover.is_symlink():
+            shutil.rmtree(leftover, ignore_errors=True)
+
+
 @contextlib.contextmanager
 def _build_lock(output: Path) -> Iterator[None]:
     lock_path = output.with_name(f".{output.name}.lock")
@@ -465,6 +480,7 @@ def build_site(job_root: Path, output: Path, with_pdf: bool = True,
     _check_output(output, job_root)
     report = BuildReport(output=output, result=result)
     with _build_lock(output):
+        _clear_leftovers(output)
         pages = plan_site(result)
         files = _site_files(job, result, pages)
         tasks = _archival_tasks(job, result, pages, files) if with_pdf else []
