@@ -58,7 +58,11 @@ def _markdown() -> MarkdownIt:
     def validate_link(url: str) -> bool:
         lowered = url.strip().lower()
         if ":" not in lowered.split("/")[0]:
-            return not lowered.startswith("//")  # relative links stay inside the site
+            # Relative links stay inside the site: from a folder opened with file:// a
+            # link from the root ('/etc/passwd') or one climbing out ('../..') would open
+            # a file of the reader's computer.
+            segments = lowered.replace("\\", "/").split("?")[0].split("#")[0].split("/")
+            return not lowered.startswith(("/", "\\")) and ".." not in segments
         return lowered.startswith(_SAFE_SCHEMES)
 
     md.validateLink = validate_link  # type: ignore[method-assign]
