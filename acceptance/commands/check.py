@@ -51,15 +51,21 @@ def summary_lines(result: JobResult, show_all: bool = False) -> list[str]:
             lines.append("  no visits recorded")
         for visit in machine.visits:
             lines.append(f"  {_STATE_MARK[visit.state]} {visit.id} ({visit.kind}, "
-                         f"{visit.date.isoformat()}): {visit.state.value.upper()}")
-            for item in visit.items:
+                         f"{visit.date.isoformat()}): {visit.state.value.upper()}"
+                         + (f" as left (as found: {visit.as_found_state.value})"
+                            if visit.as_found_state is not None else ""))
+            left = {item.key: item for item in visit.as_left}
+            for found in visit.items:
+                item = left.get(found.key, found)
+                label = "as left: " if found.key in left else ""
                 if not show_all and not item.verdict.is_open:
                     continue
                 for element in item.elements or ():
                     if not show_all and (not element.verdict.is_open or (
                             not item.required and element.verdict is Verdict.NOT_TESTED)):
                         continue
-                    where = f"{item.key}" + (f"[{element.element}]" if element.element else "")
+                    where = f"{label}{item.key}" + (f"[{element.element}]" if element.element
+                                                     else "")
                     reading = element.reading or "—"
                     lines.append(f"      {_MARK[element.verdict]} {element.verdict.value:<16} "
                                  f"{where}: {reading}")
