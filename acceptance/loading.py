@@ -850,7 +850,8 @@ def _load_machines(root: Path, checklists: dict[str, LoadedChecklist],
     folders = sorted(p for p in machines_root.iterdir() if p.is_dir())
     if len(folders) > MAX_MACHINES:
         problems.append(Problem(_display(machines_root, root), 1, 1, "",
-                                f"{len(folders)} machines; the limit is {MAX_MACHINES}"))
+                                f"{len(folders)} machines; the limit is {MAX_MACHINES}: "
+                                "split the site into several job folders"))
         return []
     machines: list[LoadedMachine] = []
     for folder in folders:
