@@ -600,6 +600,9 @@ def _load_capture(raw: Any, path: KeyPath, visit: LoadedVisit, problems: list[Pr
                           f"{_got(raw[key])}"))
     if wrong:
         return None
+    if _unprintable(raw["file"]):
+        problems.append(document.problem((*path, "file"), _UNPRINTABLE_PATH))
+        return None
     machine_folder = visit.path.parent.parent
     relative = Path(str(raw["file"]))
     resolved = (machine_folder / relative).resolve()
@@ -1018,6 +1021,14 @@ def _check_parts(visit: LoadedVisit, machine: LoadedMachine,
                     f"no checklist item '{key}' for this machine{_suggest(key, keys)}"))
 
 
+_UNPRINTABLE_PATH = ("the path holds a control character (a NUL, tab or line break); "
+                     "write the file name as it appears in the folder")
+
+
+def _unprintable(path: str) -> bool:
+    return any(ord(character) < 32 or ord(character) == 127 for character in str(path))
+
+
 def _check_visit_alone(path: Path, machine_folder: Path, root: Path,
                        instruments: dict[str, Instrument], problems: list[Problem]) -> None:
     """Check a visit whose machine file has problems, as far as it can be without it."""
@@ -1047,6 +1058,9 @@ def _check_attachments(visit: LoadedVisit, machine_folder: Path,
     for index, attachment in enumerate(visit.model.attachments):
         path: KeyPath = ("attachments", index, "path")
         candidate = Path(attachment.path)
+        if _unprintable(attachment.path):
+            problems.append(visit.document.problem(path, _UNPRINTABLE_PATH))
+            continue
         if candidate.is_absolute() or ".." in candidate.parts:
             problems.append(visit.document.problem(
                 path, f"'{attachment.path}' leaves the machine folder; attachments must sit "
