@@ -605,7 +605,11 @@ def _load_capture(raw: Any, path: KeyPath, visit: LoadedVisit, problems: list[Pr
         return None
     machine_folder = visit.path.parent.parent
     relative = Path(str(raw["file"]))
-    resolved = (machine_folder / relative).resolve()
+    resolved, unreadable = _resolve(machine_folder, relative)
+    if unreadable:
+        problems.append(document.problem(
+            (*path, "file"), f"capture '{_shown(raw['file'])}' {unreadable}"))
+        return None
     if relative.is_absolute() or ".." in relative.parts:
         problems.append(document.problem(
             (*path, "file"), f"'{raw['file']}' leaves the machine folder; captures must sit "
@@ -1021,6 +1025,20 @@ def _check_parts(visit: LoadedVisit, machine: LoadedMachine,
                     f"no checklist item '{key}' for this machine{_suggest(key, keys)}"))
 
 
+def _resolve(folder: Path, relative: Path) -> tuple[Path, str | None]:
+    """``folder / relative`` with links resolved, or why the system cannot look it up."""
+    try:
+        resolved = (folder / relative).resolve()
+        resolved.is_file()  # a name too long for the file system fails here, not above
+    except OSError as error:
+        return folder, f"cannot be looked up: {error.strerror}; check the file name"
+    return resolved, None
+
+
+def _shown(path: str) -> str:
+    return path if len(path) <= 80 else path[:77] + "..."
+
+
 _UNPRINTABLE_PATH = ("the path holds a control character (a NUL, tab or line break); "
                      "write the file name as it appears in the folder")
 
@@ -1066,8 +1084,11 @@ def _check_attachments(visit: LoadedVisit, machine_folder: Path,
                 path, f"'{attachment.path}' leaves the machine folder; attachments must sit "
                       "inside it (write a path relative to the machine folder)"))
             continue
-        resolved = (machine_folder / candidate).resolve()
-        if not resolved.is_relative_to(folder):
+        resolved, unreadable = _resolve(machine_folder, candidate)
+        if unreadable:
+            problems.append(visit.document.problem(
+                path, f"attachment '{_shown(attachment.path)}' {unreadable}"))
+        elif not resolved.is_relative_to(folder):
             problems.append(visit.document.problem(
                 path, f"'{attachment.path}' resolves outside the machine folder (a link?); "
                       "copy the file into the machine folder"))

@@ -14,6 +14,7 @@ from __future__ import annotations
 
 import argparse
 import random
+import re
 import sys
 import time
 import traceback
@@ -60,7 +61,8 @@ def main() -> int:
         kind, trace = run_one(number, args.seed)
         counts[kind] += 1
         if trace:
-            signature = trace.strip().splitlines()[-1]
+            # The last line names the error; the temporary folder's name is not part of it.
+            signature = re.sub(r"/\S*/fuzz-[^/]+", "", trace.strip().splitlines()[-1])[:200]
             if signature not in signatures:
                 signatures[signature] = number
                 files = mutate(random.Random(args.seed * 1_000_003 + number), BASE)
