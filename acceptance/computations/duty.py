@@ -17,9 +17,10 @@ Sources
 from __future__ import annotations
 
 import math
-import numbers
 from dataclasses import dataclass
 
+from ._checks import finite as _finite
+from ._checks import positive as _positive
 from ._errors import ComputationError
 
 __all__ = [
@@ -32,19 +33,6 @@ __all__ = [
 ]
 
 
-def _finite(name: str, value: float, unit: str) -> float:
-    if not isinstance(value, numbers.Real) or isinstance(value, bool):
-        raise ComputationError(f"{name} {value!r} must be a number in {unit}")
-    if not math.isfinite(value):
-        raise ComputationError(f"{name} {value} {unit} must be a finite number")
-    return float(value)
-
-
-def _positive(name: str, value: float, unit: str) -> float:
-    value = _finite(name, value, unit)
-    if value <= 0:
-        raise ComputationError(f"{name} {value:g} {unit} must be greater than 0 {unit}")
-    return value
 
 
 def _duty_cycle(duty_cycle: float) -> float:

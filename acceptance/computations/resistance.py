@@ -26,9 +26,11 @@ Sources
 from __future__ import annotations
 
 import math
-import numbers
 from dataclasses import dataclass
 
+from ._checks import ABSOLUTE_ZERO_C
+from ._checks import positive as _positive
+from ._checks import temperature as _temperature
 from ._errors import ComputationError
 
 __all__ = [
@@ -58,35 +60,11 @@ __all__ = [
     "temperature_coefficient_at_20c",
 ]
 
-ABSOLUTE_ZERO_C = -273.15
-"""Absolute zero on the Celsius scale [°C]."""
 
 _FEET = 0.3048  # m per international foot, exact by definition
 
 
-def _finite(name: str, value: float, unit: str) -> float:
-    if not isinstance(value, numbers.Real) or isinstance(value, bool):
-        raise ComputationError(f"{name} {value!r} must be a number in {unit}")
-    if not math.isfinite(value):
-        raise ComputationError(f"{name} {value} {unit} must be a finite number")
-    return float(value)
 
-
-def _positive(name: str, value: float, unit: str) -> float:
-    value = _finite(name, value, unit)
-    if value <= 0:
-        unit = f" {unit}" if unit else ""
-        raise ComputationError(f"{name} {value:g}{unit} must be greater than 0{unit}")
-    return value
-
-
-def _temperature(name: str, value: float) -> float:
-    value = _finite(name, value, "°C")
-    if value < ABSOLUTE_ZERO_C:
-        raise ComputationError(
-            f"{name} {value:g} °C is below absolute zero ({ABSOLUTE_ZERO_C} °C)"
-        )
-    return value
 
 
 # --------------------------------------------------------------------------- constants

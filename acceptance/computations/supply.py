@@ -19,10 +19,11 @@ Sources
 from __future__ import annotations
 
 import math
-import numbers
 from dataclasses import dataclass
 from itertools import pairwise
 
+from ._checks import finite as _finite
+from ._checks import positive as _positive
 from ._errors import ComputationError
 from .resistance import COPPER_234_5, ConductorConstant, resistance_at_temperature
 
@@ -49,20 +50,6 @@ __all__ = [
 ]
 
 
-def _finite(name: str, value: float, unit: str) -> float:
-    if not isinstance(value, numbers.Real) or isinstance(value, bool):
-        raise ComputationError(f"{name} {value!r} must be a number in {unit}")
-    if not math.isfinite(value):
-        raise ComputationError(f"{name} {value} {unit} must be a finite number")
-    return float(value)
-
-
-def _positive(name: str, value: float, unit: str) -> float:
-    value = _finite(name, value, unit)
-    if value <= 0:
-        unit = f" {unit}" if unit else ""
-        raise ComputationError(f"{name} {value:g}{unit} must be greater than 0{unit}")
-    return value
 
 
 def _percent(fraction: float) -> str:

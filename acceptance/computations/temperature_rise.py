@@ -20,11 +20,12 @@ Sources
 from __future__ import annotations
 
 import math
-import numbers
 from dataclasses import dataclass
 
+from ._checks import positive as _positive
+from ._checks import temperature as _temperature
 from ._errors import ComputationError
-from .resistance import ABSOLUTE_ZERO_C, ConductorConstant
+from .resistance import ConductorConstant
 
 __all__ = [
     "THERMAL_CLASSES",
@@ -38,29 +39,7 @@ __all__ = [
 ]
 
 
-def _finite(name: str, value: float, unit: str) -> float:
-    if not isinstance(value, numbers.Real) or isinstance(value, bool):
-        raise ComputationError(f"{name} {value!r} must be a number in {unit}")
-    if not math.isfinite(value):
-        raise ComputationError(f"{name} {value} {unit} must be a finite number")
-    return float(value)
 
-
-def _positive(name: str, value: float, unit: str) -> float:
-    value = _finite(name, value, unit)
-    if value <= 0:
-        unit = f" {unit}" if unit else ""
-        raise ComputationError(f"{name} {value:g}{unit} must be greater than 0{unit}")
-    return value
-
-
-def _temperature(name: str, value: float) -> float:
-    value = _finite(name, value, "°C")
-    if value < ABSOLUTE_ZERO_C:
-        raise ComputationError(
-            f"{name} {value:g} °C is below absolute zero ({ABSOLUTE_ZERO_C} °C)"
-        )
-    return value
 
 
 def _k(constant: ConductorConstant | float) -> float:

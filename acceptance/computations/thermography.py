@@ -27,12 +27,13 @@ Sources
 from __future__ import annotations
 
 import math
-import numbers
 from dataclasses import dataclass
 from enum import IntEnum
 
+from ._checks import finite as _finite
+from ._checks import temperature as _temperature
 from ._errors import ComputationError
-from .resistance import ABSOLUTE_ZERO_C, awg_index
+from .resistance import awg_index
 
 __all__ = [
     "AMBIENT_BANDS",
@@ -48,21 +49,6 @@ __all__ = [
 ]
 
 
-def _finite(name: str, value: float, unit: str) -> float:
-    if not isinstance(value, numbers.Real) or isinstance(value, bool):
-        raise ComputationError(f"{name} {value!r} must be a number in {unit}")
-    if not math.isfinite(value):
-        raise ComputationError(f"{name} {value} {unit} must be a finite number")
-    return float(value)
-
-
-def _temperature(name: str, value: float) -> float:
-    value = _finite(name, value, "°C")
-    if value < ABSOLUTE_ZERO_C:
-        raise ComputationError(
-            f"{name} {value:g} °C is below absolute zero ({ABSOLUTE_ZERO_C} °C)"
-        )
-    return value
 
 
 class ThermalSeverity(IntEnum):
