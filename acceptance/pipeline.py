@@ -421,6 +421,14 @@ def _render_one(task: PdfTask, staging: str) -> tuple[str, int]:
                                 info=task.info)  # type: ignore[arg-type]
 
 
+#: Documents a PDF worker renders before it is replaced (WeasyPrint keeps what it loaded).
+TASKS_PER_WORKER = 16
+
+
+def _render_star(arguments: tuple[PdfTask, str]) -> tuple[str, int]:
+    return _render_one(*arguments)
+
+
 def _render_pdfs(tasks: list[PdfTask], staging: Path, jobs: int,
                  progress: Callable[[str], None] | None) -> int:
     """Render ``tasks`` into ``staging``; in worker processes when ``jobs`` > 1."""
@@ -431,18 +439,18 @@ def _render_pdfs(tasks: list[PdfTask], staging: Path, jobs: int,
             if progress:
                 progress(f"[{number}/{len(tasks)}] {task.pdf}")
         return pages
-    import concurrent.futures
     import multiprocessing
 
-    # forkserver: workers start from a process that has already imported WeasyPrint, and
-    # each is replaced after a few documents so the memory it held is given back.
+    # forkserver: workers start from a process that has already imported WeasyPrint. Each
+    # worker is replaced after a few documents so the memory it held is given back; the
+    # older multiprocessing.Pool is used because ProcessPoolExecutor's max_tasks_per_child
+    # can stop replacing workers on Python 3.11 and hang the build.
     context = multiprocessing.get_context("forkserver")
     context.set_forkserver_preload(["acceptance.rendering.pdf"])
-    with concurrent.futures.ProcessPoolExecutor(
-            max_workers=jobs, mp_context=context, max_tasks_per_child=16) as pool:
-        futures = [pool.submit(_render_one, task, str(staging)) for task in tasks]
-        for number, future in enumerate(concurrent.futures.as_completed(futures), start=1):
-            name, count = future.result()
+    with context.Pool(processes=jobs, maxtasksperchild=TASKS_PER_WORKER) as pool:
+        work = [(task, str(staging)) for task in tasks]
+        for number, (name, count) in enumerate(
+                pool.imap_unordered(_render_star, work, chunksize=1), start=1):
             pages += count
             if progress:
                 progress(f"[{number}/{len(tasks)}] {name}")

@@ -18,7 +18,6 @@ little per machine, so that every page differs.
 from __future__ import annotations
 
 import argparse
-import concurrent.futures
 import multiprocessing
 import os
 import shutil
@@ -198,9 +197,8 @@ def pdf_floor(site: Path, jobs: int) -> float:
     context = multiprocessing.get_context("forkserver")
     context.set_forkserver_preload(["weasyprint"])
     start = time.perf_counter()
-    with concurrent.futures.ProcessPoolExecutor(jobs, mp_context=context,
-                                                max_tasks_per_child=16) as pool:
-        list(pool.map(_floor_render, pages, chunksize=1))
+    with context.Pool(jobs, maxtasksperchild=16) as pool:
+        list(pool.imap_unordered(_floor_render, pages, chunksize=1))
     elapsed = time.perf_counter() - start
     for path in (site / "machines").glob("*/*.floor.pdf"):
         path.unlink()

@@ -192,3 +192,15 @@ def evaluate() -> Callable[[Path], Evaluated]:
 @pytest.fixture
 def step() -> Callable[[CheckResult, str], float]:
     return step_value
+
+
+@pytest.fixture(scope="session")
+def demo_site(tmp_path_factory: pytest.TempPathFactory) -> Path:
+    """The demo job built once per test session, PDFs included."""
+    from acceptance.pipeline import build_site
+
+    output = tmp_path_factory.mktemp("site") / "demo_site"
+    report = build_site(DEMO_JOB, output)
+    visits = len(list(DEMO_JOB.glob("machines/*/visits/*.yaml")))
+    assert report.pdfs == visits + 1  # one record per visit, and package.pdf
+    return output

@@ -66,15 +66,6 @@ def parse(path: Path) -> _Links:
 
 
 @pytest.fixture(scope="session")
-def demo_site(tmp_path_factory) -> Path:
-    """The demo job built once, PDFs included."""
-    output = tmp_path_factory.mktemp("site") / "demo_site"
-    report = build_site(DEMO_JOB, output)
-    assert report.pdfs == len(DEMO_VISITS) + 1  # one record per visit, and package.pdf
-    return output
-
-
-@pytest.fixture(scope="session")
 def demo_results(demo_site) -> dict:
     return json.loads((demo_site / "results.json").read_text(encoding="utf-8"))
 
