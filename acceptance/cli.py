@@ -8,7 +8,7 @@ import sys
 from collections.abc import Sequence
 
 from . import __version__
-from .errors import AcceptanceError
+from .errors import AcceptanceError, InputError
 
 # Each command lives in acceptance/commands/<name>.py and exposes
 # ``register(subparsers)``; modules are imported lazily so that light commands
@@ -53,8 +53,13 @@ def main(argv: Sequence[str] | None = None) -> int:
     args = parser.parse_args(argv[1:])
     try:
         return int(module.run(args))
+    except InputError as error:
+        # One problem per line, each starting with its location, however many there are:
+        # editors and scripts read 'file:line:column:' at the start of a line.
+        print(str(error), file=sys.stderr)
+        return error.exit_code
     except AcceptanceError as error:
-        print(f"error: {error}" if "\n" not in str(error) else str(error), file=sys.stderr)
+        print(f"error: {error}", file=sys.stderr)
         return error.exit_code
     except KeyboardInterrupt:
         print("interrupted; nothing was replaced", file=sys.stderr)

@@ -62,7 +62,7 @@ def test_unknown_column_is_an_error_with_a_suggestion(
         capsys: pytest.CaptureFixture[str]) -> None:
     assert main(["capture", DEMO, "--channel", "CH3=x10"]) == 2
     err = capsys.readouterr().err
-    assert err == (f"error: {DEMO}:4:1: CH3: no column named 'CH3'; the header names time_s, "
+    assert err == (f"{DEMO}:4:1: CH3: no column named 'CH3'; the header names time_s, "
                    "CH1, CH2; did you mean 'CH2'?\n")
 
 
@@ -83,7 +83,7 @@ def test_missing_file_names_it(tmp_path: Path, capsys: pytest.CaptureFixture[str
     missing = tmp_path / "none.csv"
     assert main(["capture", str(missing)]) == 2
     assert capsys.readouterr().err == (
-        f"error: {missing}:1:1: cannot read the capture: No such file or directory\n")
+        f"{missing}:1:1: cannot read the capture: No such file or directory\n")
 
 
 def test_cycles_in_summary_agree_with_the_duration(capsys: pytest.CaptureFixture[str]) -> None:
