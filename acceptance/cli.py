@@ -18,10 +18,10 @@ COMMANDS: tuple[tuple[str, str], ...] = (
     ("build", "write the HTML site, a PDF per visit and the results file"),
     ("capture", "analyse a scope capture (CSV): RMS, meter readings, harmonics"),
     ("schema", "write the JSON Schemas of every file kind (for editors)"),
+    ("compare", "compare each visit of a machine with its baseline: steady, watch or act"),
     ("sign", "sign a visit: record who, when and a digest of every input of its verdicts"),
     ("verify", "check a built site against its manifest, or a job's signed visits"),
     ("keygen", "create an Ed25519 key for signing visits and site manifests"),
-    ("compare", "compare each visit of a machine with its baseline: steady, watch or act"),
     ("new", "write a blank visit file with every item of a machine's checklists"),
     ("serve", "serve a live preview on 127.0.0.1 that rebuilds when the job changes"),
 )

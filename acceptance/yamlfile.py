@@ -113,6 +113,8 @@ def _build(node: yaml.Node, path: KeyPath, marks: dict[KeyPath, tuple[int, int]]
         raise _NodeError(node, f"nesting deeper than {MAX_DEPTH} levels is not supported")
     if isinstance(node, yaml.ScalarNode):
         return _scalar(node)
+    if not isinstance(node, yaml.ScalarNode) and node.tag not in _PLAIN_TAGS[type(node)]:
+        raise _NodeError(node, f"YAML tag {node.tag!r} is not allowed; write a plain value")
     if isinstance(node, yaml.SequenceNode):
         items = []
         for index, child in enumerate(node.value):
@@ -132,7 +134,8 @@ def _build(node: yaml.Node, path: KeyPath, marks: dict[KeyPath, tuple[int, int]]
                                  "write the fields out"))
                 continue
             if not isinstance(key_node, yaml.ScalarNode):
-                problems.append((key_node, path, "a key must be a plain name"))
+                problems.append((key_node, path, "a key must be a plain name; write each "
+                                 "entry as name: value"))
                 continue
             key = str(key_node.value)
             key_path = (*path, key)
@@ -152,6 +155,34 @@ def _build(node: yaml.Node, path: KeyPath, marks: dict[KeyPath, tuple[int, int]]
     raise _NodeError(node, "unsupported YAML node")  # pragma: no cover
 
 
+# A tag on a list or mapping is as foreign to a job file as one on a scalar; scalars are
+# checked in _scalar, where the implicit tags of plain values are known.
+_PLAIN_TAGS: dict[type, tuple[str, ...]] = {
+    yaml.SequenceNode: ("tag:yaml.org,2002:seq",),
+    yaml.MappingNode: ("tag:yaml.org,2002:map",),
+}
+
+
+_LIBYAML = bool(getattr(yaml, "__with_libyaml__", False))
+
+
+def _shared_node(root: yaml.Node) -> yaml.Node | None:
+    """The first node reached twice: a composed alias shares the anchored node."""
+    seen: set[int] = set()
+    stack = [root]
+    while stack:
+        node = stack.pop()
+        if id(node) in seen:
+            return node
+        seen.add(id(node))
+        if isinstance(node, yaml.SequenceNode):
+            stack.extend(node.value)
+        elif isinstance(node, yaml.MappingNode):
+            for key, value in node.value:
+                stack.extend((key, value))
+    return None
+
+
 class _NoAliasComposer(_Composer):
     def compose_node(self, parent, index):  # type: ignore[override]
         if self.check_event(yaml.AliasEvent):
@@ -164,20 +195,53 @@ class _NoAliasComposer(_Composer):
         return super().compose_node(parent, index)
 
 
+def _check_depth(text: str) -> None:
+    """Refuse nesting deeper than MAX_DEPTH from the event stream, which does not recurse."""
+    depth = 0
+    for event in yaml.parse(text, Loader=yaml.SafeLoader):
+        if isinstance(event, yaml.CollectionStartEvent):
+            depth += 1
+            if depth > MAX_DEPTH + 1:
+                raise yaml.MarkedYAMLError(
+                    None, None, f"nesting deeper than {MAX_DEPTH} levels is not supported",
+                    event.start_mark)
+        elif isinstance(event, yaml.CollectionEndEvent):
+            depth -= 1
+
+
+# What to do about PyYAML's commonest complaints, in the words of someone editing the file.
+_SYNTAX_HINTS: tuple[tuple[str, str], ...] = (
+    ("expected <block end>", "; indent this line like the keys beside it"),
+    ("did not find expected key", "; indent this line like the keys beside it"),
+    ("mapping values are not allowed",
+     "; a value that holds ': ' must be quoted, or a key is indented too far"),
+    ("expected a single document", "; a job file holds one document: remove the '---' line"),
+    ("found unexpected end of stream", "; close the quote or bracket that is still open"),
+    ("expected ',' or '}'", "; close the '{' with '}' on the same entry"),
+    ("expected ',' or ']'", "; close the '[' with ']' on the same entry"),
+    ("could not find expected ':'", "; write each entry as key: value"),
+    ("exceeded max", f"; nesting deeper than {MAX_DEPTH} levels is not supported"),
+)
+
+
 def load_yaml(path: Path, display_name: str | None = None,
               max_bytes: int = MAX_FILE_BYTES) -> Document:
     """Parse ``path``; raise :class:`InputError` listing every problem found."""
     name = display_name or str(path)
     try:
-        raw = path.read_bytes()
+        size = path.stat().st_size  # before reading: a huge file is refused unread
+        raw = path.read_bytes() if size <= max_bytes else b""
     except FileNotFoundError:
         raise InputError.single(name, "file not found") from None
     except OSError as error:
         raise InputError.single(name, f"cannot be read: {error.strerror}") from None
-    if len(raw) > max_bytes:
+    if size > max_bytes:
         raise InputError.single(
-            name, f"file is {len(raw)} bytes; the limit is {max_bytes} bytes for a YAML file"
+            name, f"file is {size} bytes; the limit is {max_bytes} bytes for a YAML file: "
+                  "split it (one file per visit) and keep bulk data in captures"
         )
+    if raw.startswith((b"\xff\xfe", b"\xfe\xff")):
+        raise InputError.single(name, "the file is saved as UTF-16; save it as UTF-8")
     if raw.startswith(b"\xef\xbb\xbf"):
         raw = raw[3:]  # a UTF-8 byte order mark is harmless; editors on some systems add it
     try:
@@ -190,15 +254,19 @@ def load_yaml(path: Path, display_name: str | None = None,
             f"byte 0x{raw[error.start]:02x} is not valid UTF-8; save the file as UTF-8",
             line, column,
         ) from None
-    for number, line_text in enumerate(text.splitlines(), start=1):
+    for number, line_text in enumerate(text.splitlines() if "\t" in text else (), start=1):
         indent = line_text[: len(line_text) - len(line_text.lstrip(" \t"))]
         if "\t" in indent:
             raise InputError.single(
                 name, "a tab is used for indentation; indent with spaces", number,
                 indent.index("\t") + 1,
             )
-    loader = _NoAliasComposer(text)
+    # libyaml composes about ten times faster; the pure-Python composer is the fallback
+    # where PyYAML was built without it. Either way aliases are refused below.
+    loader = yaml.CSafeLoader(text) if _LIBYAML else _NoAliasComposer(text)
     try:
+        if not _LIBYAML:
+            _check_depth(text)  # the Python composer recurses once per level
         node = loader.get_single_node()
     except yaml.MarkedYAMLError as error:
         mark = error.problem_mark or error.context_mark
@@ -206,11 +274,23 @@ def load_yaml(path: Path, display_name: str | None = None,
         message = (error.problem or str(error)).strip()
         if error.context and "alias" not in message:
             message = f"{error.context.strip()}: {message}"
+            started = error.context_mark
+            if (started is not None and mark is not None and started.line != mark.line
+                    and ("flow" in error.context or "quoted" in error.context)):
+                message += f" (it starts on line {started.line + 1})"
+        message += next((hint for clue, hint in _SYNTAX_HINTS if clue in message), "")
         raise InputError.single(name, f"not valid YAML: {message}", line, column) from None
     except yaml.YAMLError as error:
         raise InputError.single(name, f"not valid YAML: {error}") from None
     finally:
         loader.dispose()
+    if node is not None and _shared_node(node) is not None:
+        # Only on this error path: scan again to point at the alias itself, not its anchor.
+        token = next(t for t in yaml.scan(text, Loader=yaml.SafeLoader)
+                     if isinstance(t, yaml.AliasToken))
+        raise InputError.single(
+            name, "not valid YAML: aliases ('*name') are not supported in job files; repeat "
+                  "the value instead", token.start_mark.line + 1, token.start_mark.column + 1)
     marks: dict[KeyPath, tuple[int, int]] = {(): (1, 1)}
     problems: list[tuple[yaml.Node, KeyPath, str]] = []
     data = None if node is None else _build(node, (), marks, problems, 0)

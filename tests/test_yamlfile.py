@@ -148,4 +148,5 @@ def test_oversized_file_is_refused(tmp_path):
     with pytest.raises(InputError) as caught:
         load_yaml(path, display_name="big.yaml", max_bytes=20)
     assert str(caught.value) == (
-        "big.yaml:1:1: file is 50 bytes; the limit is 20 bytes for a YAML file")
+        "big.yaml:1:1: file is 50 bytes; the limit is 20 bytes for a YAML file: split it (one "
+        "file per visit) and keep bulk data in captures")
