@@ -68,7 +68,7 @@ DEFAULT_VISIT: dict[str, Any] = {
 }
 
 #: Supply readings that pass the built-in supply checklist for the default 400 V 50 Hz
-#: machine: IEC 60204-1 cl. 4.3.2 window 360–440 V, 49.5–50.5 Hz (REFERENCES §3) [M].
+#: machine: IEC 60204-1 cl. 4.3.2 window 360–440 V, 49.5–50.5 Hz (reference values §3) [M].
 PASSING_SUPPLY: dict[str, Any] = {
     "voltage": {"L1-L2": "401 V", "L2-L3": "399 V", "L3-L1": "400 V"},
     "frequency": "50.0 Hz",

@@ -36,7 +36,7 @@ def test_json_output_matches_the_schema(capsys: pytest.CaptureFixture[str]) -> N
     assert document["schema"] == "acceptance-capture/1"
     assert document["frequency"]["unit"] == "Hz"
     current = document["channels"]["CH2"]
-    # An average-responding clamp on this current reads 30–45 % low [P, REFERENCES §9].
+    # An average-responding clamp on this current reads 30–45 % low [P, reference values §9].
     ratio = current["average_responding_ac"]["value"] / current["rms"]["value"]
     assert 0.55 <= ratio <= 0.70
 

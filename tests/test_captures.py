@@ -246,7 +246,7 @@ def test_model_capture_reads_back_to_the_model_values(tmp_path: Path) -> None:
 def test_demo_capture_shows_a_rectifier_current() -> None:
     analysis = analyse_capture(ROOT / DEMO_CAPTURE, SCALINGS, "CH1", "CH2")
     current = analysis.channel("CH2").metrics
-    # REFERENCES §9 [P]: crest factor 2.5–4.5; average-responding reads 30–45 % low.
+    # reference values §9 [P]: crest factor 2.5–4.5; average-responding reads 30–45 % low.
     assert 2.5 <= current.crest_factor <= 4.5
     assert 0.30 <= 1 - current.average_responding_ac / current.rms <= 0.45
     assert analysis.channel("CH1").metrics.rms == pytest.approx(230.0, rel=0.05)

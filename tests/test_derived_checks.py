@@ -1,5 +1,5 @@
 """Derived checks through small job folders: each verdict and its numbers against
-published worked examples (../shared/guide/REFERENCES.md, section named beside each check)."""
+published worked examples (tests/reference_values.md, section named beside each check)."""
 
 from __future__ import annotations
 
@@ -23,7 +23,7 @@ def test_winding_resistance_uses_the_iec_60034_1_copper_constant(make_job, evalu
                         "w": {"value": "2.500 Ω", "temperature": "22 °C"}}}}})
     check = evaluate(root).check("windings.resistance", "w")
     assert check.verdict is Verdict.RECORDED
-    # REFERENCES §1: 2.500 Ω at 22 °C → 75 °C with Cu k = 235 (IEC 60034-1) 3.0156 Ω [S/M];
+    # reference values §1: 2.500 Ω at 22 °C → 75 °C with Cu k = 235 (IEC 60034-1) 3.0156 Ω [S/M];
     # 1e-4 relative separates it from k = 234.5 (3.0166 Ω).
     assert step(check, "R at 75") == pytest.approx(3.0156, rel=1e-4)
     assert step(check, "conductor constant") == 235.0
@@ -37,7 +37,7 @@ def test_rise_by_resistance_and_its_table_7_limit(make_job, evaluate, step):
         "windings": {"resistance": {"w": {"value": "0.800 Ω", "temperature": "20 °C"}}},
         "temperature_rise": {"winding_rise": {"w": {"value": "1.050 Ω", "ambient": "30 °C"}}}}})
     check = evaluate(root).check("temperature_rise.winding_rise", "w")
-    # REFERENCES §2: R1 0.800 Ω at 20 °C, R2 1.050 Ω, θa 30 °C, k 235 → 69.69 K [S];
+    # reference values §2: R1 0.800 Ω at 20 °C, R2 1.050 Ω, θa 30 °C, k 235 → 69.69 K [S];
     # the printed value has 4 significant figures, so 5e-5 relative.
     assert step(check, "temperature rise") == pytest.approx(69.69, rel=5e-5)
     # IEC 60034-1 Table 7, class F by resistance at 40 °C coolant: 105 K [S].
@@ -62,7 +62,7 @@ def _capacitor_job(make_job, reading: str, nominal: str = "470 µF",
 
 def test_stored_energy_charge_and_largest_bleeder(make_job, evaluate, step):
     check = evaluate(_capacitor_job(make_job, "4.9 s")).check("capacitors.discharge_time", "dc")
-    # REFERENCES §7: 470 µF at 565.7 V → 75.2 J, Q 0.266 C, Rmax 4.74 kΩ for 5 s [S];
+    # reference values §7: 470 µF at 565.7 V → 75.2 J, Q 0.266 C, Rmax 4.74 kΩ for 5 s [S];
     # tolerances are half a unit of the last printed digit.
     assert step(check, "stored energy") == pytest.approx(75.2, abs=0.05)
     assert step(check, "stored charge") == pytest.approx(0.266, abs=0.0005)
@@ -73,13 +73,13 @@ def test_stored_energy_charge_and_largest_bleeder(make_job, evaluate, step):
 
 
 def test_discharge_slower_than_5_s_fails(make_job, evaluate):
-    # IEC 60204-1:2016 cl. 6.2.4: ≤ 60 V within 5 s (REFERENCES §7) [S].
+    # IEC 60204-1:2016 cl. 6.2.4: ≤ 60 V within 5 s (reference values §7) [S].
     check = evaluate(_capacitor_job(make_job, "5.3 s")).check("capacitors.discharge_time", "dc")
     assert check.verdict is Verdict.FAIL
 
 
 def test_charge_of_60_uc_or_less_is_exempt(make_job, evaluate, step):
-    # IEC 60204-1 cl. 6.2.4 exempts a stored charge ≤ 60 µC (REFERENCES §7) [S]:
+    # IEC 60204-1 cl. 6.2.4 exempts a stored charge ≤ 60 µC (reference values §7) [S]:
     # 0.1 µF at 565.7 V holds 56.57 µC, so a slow discharge still passes.
     root = _capacitor_job(make_job, "20 s", nominal="0.1 µF", bleeder=None)
     check = evaluate(root).check("capacitors.discharge_time", "dc")
@@ -99,7 +99,7 @@ def _unbalance(make_job, evaluate, voltages):
 
 def test_unbalance_460_467_450_fails_2_percent(make_job, evaluate, step):
     evaluated, check = _unbalance(make_job, evaluate, ("460 V", "467 V", "450 V"))
-    # REFERENCES §4: NEMA 1.961 %, IEC (sequence) 2.146 %, |V1| 458.95 V, |V2| 9.85 V [S/M];
+    # reference values §4: NEMA 1.961 %, IEC (sequence) 2.146 %, |V1| 458.95 V, |V2| 9.85 V [S/M];
     # printed to 4 significant figures: 5e-4 relative.
     assert step(check, "unbalance, NEMA") == pytest.approx(1.961, rel=5e-4)
     assert step(check, "unbalance, sequence") == pytest.approx(2.146, rel=5e-4)
@@ -115,7 +115,7 @@ def test_unbalance_460_467_450_fails_2_percent(make_job, evaluate, step):
 
 def test_unbalance_480_476_472_passes(make_job, evaluate, step):
     _evaluated, check = _unbalance(make_job, evaluate, ("480 V", "476 V", "472 V"))
-    # REFERENCES §4: NEMA 0.840 %, IEC 0.970 % [S/M]; 4 significant figures.
+    # reference values §4: NEMA 0.840 %, IEC 0.970 % [S/M]; 4 significant figures.
     assert step(check, "unbalance, NEMA") == pytest.approx(0.840, rel=5e-4)
     assert step(check, "unbalance, sequence") == pytest.approx(0.970, rel=5e-4)
     assert check.verdict is Verdict.PASS
@@ -144,7 +144,7 @@ def _cord_job(make_job, **job):
 
 def test_cord_voltage_drop_at_70_c(make_job, evaluate, step):
     check = evaluate(_cord_job(make_job)).check("current.load_current", "L", "voltage_drop")
-    # REFERENCES §8: 6 m two-core 2.5 mm² class 5 cord, 16 A, 230 V, resistive: 1.833 V
+    # reference values §8: 6 m two-core 2.5 mm² class 5 cord, 16 A, 230 V, resistive: 1.833 V
     # (0.797 %) corrected to 70 °C [S]; 4 significant figures: 5e-4 relative.
     assert step(check, "voltage drop") == pytest.approx(1.833, rel=5e-4)
     assert step(check, "of nominal") == pytest.approx(0.797, rel=5e-4)
@@ -158,7 +158,7 @@ def test_cord_voltage_drop_at_20_c_by_job_override(make_job, evaluate, step):
                   "source": {"kind": "job", "document": "test"}}]
     check = evaluate(_cord_job(make_job, overrides=overrides)).check(
         "current.load_current", "L", "voltage_drop")
-    # REFERENCES §8: the same cord at 20 °C: 1.532 V (0.666 %) [S].
+    # reference values §8: the same cord at 20 °C: 1.532 V (0.666 %) [S].
     assert step(check, "voltage drop") == pytest.approx(1.532, rel=5e-4)
     assert step(check, "of nominal") == pytest.approx(0.666, rel=5e-4)
 
@@ -186,7 +186,7 @@ def test_equivalent_current_at_50_percent_duty(make_job, evaluate, step):
     root = make_job(machine=machine, visit={"readings": {"current": {
         "load_current": {"L": {"value": "40 A", "instrument": "clamp-trms"}}}}})
     check = evaluate(root).check("current.load_current", "L", "duty")
-    # REFERENCES §10: 40 A at 50 % → 28.4 A with NEC Table 630.11(A) multiplier 0.71,
+    # reference values §10: 40 A at 50 % → 28.4 A with NEC Table 630.11(A) multiplier 0.71,
     # 28.28 A by √D [S]; the multiplier product is exact, √D to 4 significant figures.
     assert step(check, "equivalent current I_eq") == pytest.approx(28.4, rel=1e-12)
     assert step(check, "equivalent current by") == pytest.approx(28.28, rel=5e-4)
@@ -220,7 +220,7 @@ def test_insulation_corrected_to_40_c_fails_a_100_megohm_minimum(make_job, evalu
         "value": "180 MΩ", "test_voltage": "500 V", "temperature": "30 °C"}}},
         overrides=overrides)
     check = evaluate(root).check("insulation.winding", "w")
-    # REFERENCES §5: 180 MΩ at 30 °C → 90 MΩ at 40 °C (R40 = Rt·0.5^((40 − T)/10)) [S],
+    # reference values §5: 180 MΩ at 30 °C → 90 MΩ at 40 °C (R40 = Rt·0.5^((40 − T)/10)) [S],
     # which fails the IEEE 43 100 MΩ minimum for form-wound windings [S] that it passes
     # as read. Exact arithmetic: 1e-12 relative.
     assert step(check, "R at 40") == pytest.approx(90e6, rel=1e-12)
@@ -232,7 +232,7 @@ def test_power_circuits_default_is_iec_60204_1_1_megohm_at_500_v(make_job, evalu
     root = _insulation_job(make_job, {"power_circuits": {
         "value": "2.5 MΩ", "test_voltage": "500 V", "temperature": "40 °C"}})
     check = evaluate(root).check("insulation.power_circuits")
-    # IEC 60204-1:2016 cl. 18.3: ≥ 1 MΩ at 500 V d.c. (REFERENCES §5) [S].
+    # IEC 60204-1:2016 cl. 18.3: ≥ 1 MΩ at 500 V d.c. (reference values §5) [S].
     assert step(check, "minimum") == pytest.approx(1e6, rel=1e-12)
     assert "IEC 60204-1:2016 cl. 18.3" in check.source
     assert check.verdict is Verdict.PASS
@@ -242,7 +242,7 @@ def test_power_circuits_tested_below_500_v_is_undetermined(make_job, evaluate):
     root = _insulation_job(make_job, {"power_circuits": {
         "value": "2.5 MΩ", "test_voltage": "250 V", "temperature": "20 °C"}})
     check = evaluate(root).check("insulation.power_circuits")
-    # IEC 60204-1 cl. 18.3 states its minimum at 500 V d.c. (REFERENCES §5) [S].
+    # IEC 60204-1 cl. 18.3 states its minimum at 500 V d.c. (reference values §5) [S].
     assert check.verdict is Verdict.UNDETERMINED
     assert "500 V d.c." in (check.message or "")
 
@@ -252,7 +252,7 @@ def test_polarization_index_passes_class_f(make_job, evaluate, step):
         "winding": {"w": {"value": "500 MΩ", "test_voltage": "500 V", "temperature": "40 °C"}},
         "polarization_index": {"w": "1200 MΩ"}})
     check = evaluate(root).check("insulation.polarization_index", "w")
-    # REFERENCES §5: PI = 1200/500 = 2.40, class F minimum 2.0 (IEEE 43) [S]; exact.
+    # reference values §5: PI = 1200/500 = 2.40, class F minimum 2.0 (IEEE 43) [S]; exact.
     assert step(check, "polarization index") == pytest.approx(2.40, rel=1e-12)
     assert check.verdict is Verdict.PASS
 
@@ -271,7 +271,7 @@ def _bonding_job(make_job, reading: str):
 
 def test_bonding_expected_from_length_and_cross_section(make_job, evaluate, step):
     check = evaluate(_bonding_job(make_job, "0.120 Ω")).check("bonding.continuity", "frame")
-    # REFERENCES §6: 15 m of 2.5 mm² copper → 15 × 7.41 mΩ = 0.111 Ω at 20 °C
+    # reference values §6: 15 m of 2.5 mm² copper → 15 × 7.41 mΩ = 0.111 Ω at 20 °C
     # (IEC 60228 class 2, IEC 60204-1:2016 cl. 18.2) [S/M]; exact product 0.11115 Ω.
     assert step(check, "expected resistance") == pytest.approx(0.11115, rel=1e-9)
     assert check.verdict is Verdict.PASS

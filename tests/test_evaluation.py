@@ -48,7 +48,7 @@ PROBE = {
         ("insulation", "1 MΩ", Verdict.PASS, "R ≥ 1 MΩ"),
         ("insulation", "1000 kΩ", Verdict.PASS, "R ≥ 1 MΩ"),
         ("insulation", "0.99 MΩ", Verdict.FAIL, "R ≥ 1 MΩ"),
-        # 230 V ± 10 % (IEC 60038 nominal and its range) [M]; REFERENCES §11 window [S].
+        # 230 V ± 10 % (IEC 60038 nominal and its range) [M]; reference values §11 window [S].
         ("mains", "207 V", Verdict.PASS, "207 V ≤ U ≤ 253 V"),
         ("mains", "253 V", Verdict.PASS, "207 V ≤ U ≤ 253 V"),
         ("mains", "206.9 V", Verdict.FAIL, "207 V ≤ U ≤ 253 V"),
@@ -67,7 +67,7 @@ def test_generic_bounds(make_job, evaluate, item, reading, verdict, limit):
 @pytest.mark.parametrize(
     ("line_voltage", "verdict"),
     [
-        # IEC 60204-1 cl. 4.3.2: 0.9–1.1 Un, so 360.0–440.0 V for 400 V (REFERENCES §3) [M]
+        # IEC 60204-1 cl. 4.3.2: 0.9–1.1 Un, so 360.0–440.0 V for 400 V (reference values §3) [M]
         ("360.0 V", Verdict.PASS),
         ("359.9 V", Verdict.FAIL),
         ("440.0 V", Verdict.PASS),
@@ -126,7 +126,7 @@ def test_current_above_the_rating(make_job, evaluate):
 
 def test_average_responding_reading_against_an_rms_rating_is_undetermined(make_job, evaluate):
     # An average-responding meter reads 1.1107 · mean|i| and under-reads a peaky current
-    # (REFERENCES §9) [S]; it cannot be compared with an RMS rating, however close it is.
+    # (reference values §9) [S]; it cannot be compared with an RMS rating, however close it is.
     result = evaluate(current_job(make_job, {"value": "9.8 A", "instrument": "clamp-avg"}))
     element = result.element("current.load_current", "L")
     assert element.verdict is Verdict.UNDETERMINED
@@ -172,7 +172,7 @@ def winding_job(make_job, reading):
 @pytest.mark.parametrize(
     ("value", "temperature", "corrected", "verdict"),
     [
-        # R20 = R · (235 + 20)/(235 + θ), copper k = 235 of IEC 60034-1 (REFERENCES §1) [S];
+        # R20 = R · (235 + 20)/(235 + θ), copper k = 235 of IEC 60034-1 (reference values §1) [S];
         # expected values are that formula worked by hand to 7 figures.
         ("28.6 Ω", "21.0 °C", 28.48828, Verdict.PASS),
         ("30.0 Ω", "21.0 °C", 29.88281, Verdict.FAIL),
@@ -226,8 +226,8 @@ def capacitor_job(make_job, tolerance, reading):
 @pytest.mark.parametrize(
     ("tolerance", "reading", "verdict", "limit"),
     [
-        # IEC 60062 letters J ±5 %, K ±10 %, M ±20 %, Z −20/+80 % (REFERENCES §13) [M];
-        # 18 µF windows J 17.10–18.90 µF, K 16.2–19.8 µF (REFERENCES §13 example).
+        # IEC 60062 letters J ±5 %, K ±10 %, M ±20 %, Z −20/+80 % (reference values §13) [M];
+        # 18 µF windows J 17.10–18.90 µF, K 16.2–19.8 µF (reference values §13 example).
         ("J", "17.10 µF", Verdict.PASS, "17.1 µF ≤ C ≤ 18.9 µF"),
         ("J", "18.90 µF", Verdict.PASS, "17.1 µF ≤ C ≤ 18.9 µF"),
         ("J", "17.09 µF", Verdict.FAIL, "17.1 µF ≤ C ≤ 18.9 µF"),
@@ -277,7 +277,7 @@ def rise_job(make_job, cold, cold_temperature, hot, ambient, winding=None):
 @pytest.mark.parametrize(
     ("cold", "cold_temperature", "hot", "ambient", "rise"),
     [
-        # IEC 60034-1 resistance method, k = 235 (REFERENCES §2 examples) [S]
+        # IEC 60034-1 resistance method, k = 235 (reference values §2 examples) [S]
         ("0.200 Ω", "20 °C", "0.210 Ω", "25 °C", 7.75),
         ("0.800 Ω", "20 °C", "1.050 Ω", "30 °C", 69.69),
     ],
@@ -288,7 +288,7 @@ def test_rise_by_resistance(make_job, evaluate, step, cold, cold_temperature, ho
         "temperature_rise.winding_rise", "main")
     # The examples are quoted to 0.01 K: half a unit of that.
     assert step(check, "temperature rise") == pytest.approx(rise, abs=0.005)
-    # Class F by resistance at 40 °C coolant: 105 K (IEC 60034-1, REFERENCES §2) [S]
+    # Class F by resistance at 40 °C coolant: 105 K (IEC 60034-1, reference values §2) [S]
     assert check.limit == "Δθ ≤ 105 K"
     assert check.verdict is Verdict.PASS
 

@@ -2,9 +2,9 @@
 
 Expected numbers are worked by hand beside each check from the formula named there:
 copper resistance correction R₂ = R₁·(k + θ₂)/(k + θ₁) with k = 235 (IEC 60034-1, as
-REFERENCES §1 gives it [S]); insulation resistance halving per 10 K to 40 °C (IEEE 43-2013,
-REFERENCES §5 [S]); the average-responding display of a square wave, 1.1107 × its RMS
-(REFERENCES §9 [S]); a constant-impedance load's current proportional to its voltage (Ohm's
+reference values §1 gives it [S]); insulation resistance halving per 10 K to 40 °C (IEEE 43-2013,
+reference values §5 [S]); the average-responding display of a square wave, 1.1107 × its RMS
+(reference values §9 [S]); a constant-impedance load's current proportional to its voltage (Ohm's
 law [S]). The change is 100·(value/baseline − 1) % of the baseline, and the thresholds are the
 checklists' own (common practice [P]); a class on a threshold is the closed-boundary rule the
 module documents.
@@ -135,7 +135,7 @@ def test_capacitance_and_current_changes_on_a_small_history(make_job) -> None:
 
 
 def _r20(resistance: float, temperature: float) -> float:
-    # IEC 60034-1 correction to 20 °C, k = 235 for copper [S] (REFERENCES §1)
+    # IEC 60034-1 correction to 20 °C, k = 235 for copper [S] (reference values §1)
     return resistance * (K_COPPER + 20.0) / (K_COPPER + temperature)
 
 
@@ -183,7 +183,7 @@ def test_insulation_resistance_is_compared_at_40_degrees(make_job) -> None:
         "v2": _visit("periodic", "2026-09-10", insulation("100 MΩ", "40 °C")),
     })
     change = _change(_machine(root), "v2", "insulation.power_circuits")
-    # IEEE 43 halving per 10 K [S] (REFERENCES §5): 180 MΩ at 30 °C → 90 MΩ at 40 °C.
+    # IEEE 43 halving per 10 K [S] (reference values §5): 180 MΩ at 30 °C → 90 MΩ at 40 °C.
     # As read the fall is 44 % (watch at 30 % [P]); at 40 °C it is a rise of 11.1 %.
     assert change.baseline_value == pytest.approx(90e6, rel=1e-9)
     assert change.value == pytest.approx(100e6, rel=1e-9)
@@ -308,7 +308,7 @@ def test_later_visits_compare_with_the_as_left_value(make_job) -> None:
     })
     machine = _machine(root)
     v1 = machine.visits[0]
-    # As found 26.1 µF is outside 28.5–31.5 µF (IEC 60062 J, ±5 % [M], REFERENCES §13);
+    # As found 26.1 µF is outside 28.5–31.5 µF (IEC 60062 J, ±5 % [M], reference values §13);
     # as left 30.4 µF is inside: the record keeps both, the state is the machine as left.
     found = next(i for i in v1.items if i.key == "capacitors.capacitance")
     left = next(i for i in v1.as_left if i.key == "capacitors.capacitance")
@@ -407,7 +407,7 @@ def test_a_capture_converts_an_average_responding_baseline_to_rms(make_job) -> N
     root = make_job(machine=MACHINE, files={"machines/m1/captures/line.csv":
                                             _square_wave_capture()}, visits={
         # A square wave of 10 A RMS reads 11.107 A on an average-responding meter
-        # (form factor 1.000 against the sine's 1.1107, REFERENCES §9 [S]).
+        # (form factor 1.000 against the sine's 1.1107, reference values §9 [S]).
         "v1": _visit("commissioning", "2026-03-10", {"current": {"load_current": {
             "L": {"value": "11.1 A", "instrument": "clamp-avg", "capture": capture}}}}),
         "v2": _visit("periodic", "2026-09-10", {"current": {"load_current": {

@@ -2,7 +2,7 @@
 
 Sources: JCGM 100:2008 cl. 4.3.7 (a/√3) and cl. 6.2 (U = k·u) [S]; ILAC-G8:09/2019 cl. 4.2.1
 (simple acceptance) and cl. 4.2.3 (guarded acceptance, non-binary statements) [S]; the worked
-example of REFERENCES §11 (230.4 V, ±(0.5 % of reading + 2 digits), 0.1 V → U = 1.561 V) [S].
+example of reference values §11 (230.4 V, ±(0.5 % of reading + 2 digits), 0.1 V → U = 1.561 V) [S].
 """
 
 from __future__ import annotations
@@ -39,7 +39,7 @@ def _supply(voltage: str) -> dict:
 
 
 def test_published_example_uncertainty_is_shown_beside_the_reading(make_job, evaluate):
-    # REFERENCES §11 [S]: a = 0.5 % × 230.4 V + 2 × 0.1 V = 1.352 V, u = 0.781 V, U = 1.561 V.
+    # reference values §11 [S]: a = 0.5 % × 230.4 V + 2 × 0.1 V = 1.352 V, u = 0.781 V, U = 1.561 V.
     root = make_job(instruments=_instruments(**{"dmm-1": {"functions": DMM_ACCURACY}}),
                     machine=SINGLE_PHASE, visit=_supply("230.4 V"))
     element = evaluate(root).element("supply.voltage", "L-N")
@@ -101,7 +101,7 @@ def test_expired_calibration_cannot_give_a_plain_pass(make_job, evaluate):
 
 
 def test_category_below_the_point_is_a_safety_finding(make_job, evaluate):
-    # IEC 61010-1 / REFERENCES §14 [S]: a CAT II instrument at a CAT III point.
+    # IEC 61010-1 / reference values §14 [S]: a CAT II instrument at a CAT III point.
     root = make_job(instruments=_instruments(**{"dmm-1": {"category": "CAT II 600 V"}}),
                     visit={"readings": {"supply": PASSING_SUPPLY}})
     element = evaluate(root).element("supply.voltage", "L1-L2")

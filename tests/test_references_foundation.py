@@ -1,4 +1,4 @@
-"""The foundation checked against REFERENCES §1 and §3, through the whole evaluation path.
+"""The foundation checked against reference values §1 and §3, through the whole evaluation path.
 
 Status tags: [S] published source (named), [M] from memory of the standard,
 [P] common trade practice with no single source.
@@ -16,7 +16,7 @@ from tests.conftest import DEFAULT_MACHINE
 # nearest competing constants (234.5 vs 235: 3.0166 vs 3.0156 Ω, 3.3e-4 apart) distinct.
 RELATIVE = 1e-4
 
-# REFERENCES §1: R2 = R1 · (k + T2) / (k + T1), 2.500 Ω at 22 °C corrected to 75 °C.
+# reference values §1: R2 = R1 · (k + T2) / (k + T1), 2.500 Ω at 22 °C corrected to 75 °C.
 CORRECTION_EXAMPLES = [
     # material, standard named in the checklist, k [°C], R at 75 °C [Ω]
     pytest.param("copper", "IEC 60228", 234.5, 3.0166,
@@ -73,7 +73,7 @@ def test_correction_through_engineering(material, standard, k, expected):
 
 
 def test_the_constants_are_told_apart():
-    # REFERENCES §1: the four constants give four distinct results at 1e-4 relative.
+    # reference values §1: the four constants give four distinct results at 1e-4 relative.
     results = sorted(
         engineering.resistance_at_temperature(
             2.500, 22.0, 75.0, engineering.temperature_constant(material, standard))
@@ -96,7 +96,7 @@ def supply_job(make_job, voltage, frequency):
 
 
 def test_supply_window_400_v_50_hz(make_job, evaluate, step):
-    # REFERENCES §3 example; IEC 60204-1 cl. 4.3.2: 0.9–1.1 Un steady state, 0.99–1.01 fn
+    # reference values §3 example; IEC 60204-1 cl. 4.3.2: 0.9–1.1 Un steady state, 0.99–1.01 fn
     # continuous [M] → 360.0–440.0 V and 49.50–50.50 Hz; 432 V at 50.2 Hz passes.
     result = evaluate(supply_job(make_job, "432 V", "50.2 Hz"))
     for key in ("supply.voltage", "supply.voltage_under_load"):

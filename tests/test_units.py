@@ -89,7 +89,7 @@ def test_micro_sign_and_greek_mu_are_the_same_reading():
 
 def test_prefixed_reading_is_the_nearest_double():
     # A prefix scales by an exact power of ten (SI Brochure Table 7) [S]; 16.2 µF must be
-    # the same number as 16.2e-6 F, or a reading on a tolerance boundary (REFERENCES §13,
+    # the same number as 16.2e-6 F, or a reading on a tolerance boundary (reference values §13,
     # K window 16.2–19.8 µF for 18 µF) falls outside by one unit in the last place.
     assert parse_quantity("16.2 µF", D.CAPACITANCE).value == 16.2e-6
     assert parse_quantity("19.8 µF", D.CAPACITANCE).value == 19.8e-6
@@ -177,7 +177,7 @@ def test_number_without_unit_is_refused():
 
 
 def test_temperature_is_not_a_temperature_difference():
-    # A rise (IEC 60034-1 limits, REFERENCES §2) is a difference, in K; a temperature is in
+    # A rise (IEC 60034-1 limits, reference values §2) is a difference, in K; a temperature is in
     # °C. Mixing them is the classic error of reading a 40 °C ambient as a 40 K rise [P].
     with pytest.raises(UnitError) as caught:
         parse_quantity("40 °C", D.TEMPERATURE_DIFFERENCE)

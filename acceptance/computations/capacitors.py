@@ -75,7 +75,7 @@ class ToleranceCode:
         return f"{self.letter}: {self.lower * 100:+g} / {self.upper * 100:+g} %"
 
 
-# IEC 60062 [M, REFERENCES §13]
+# IEC 60062 [M, reference values §13]
 _RELATIVE = {"B": 0.001, "C": 0.0025, "D": 0.005, "F": 0.01, "G": 0.02, "J": 0.05,
              "K": 0.10, "M": 0.20, "N": 0.30}
 # IEC 60062: below 10 pF rated capacitance B, C, D, F, G are absolute [M]

@@ -110,7 +110,7 @@ class DutyMultiplier:
 
 
 # NEC Table 630.11(A): duty cycle % → multiplier; the last row is "20 or less".
-# Non-motor-generator [S, REFERENCES §10]; motor-generator [M].
+# Non-motor-generator [S, reference values §10]; motor-generator [M].
 _NEC_630_11 = {
     "nonmotor_generator": ((100, 1.00), (90, 0.95), (80, 0.89), (70, 0.84), (60, 0.78),
                            (50, 0.71), (40, 0.63), (30, 0.55), (20, 0.45)),

@@ -184,7 +184,7 @@ def iec_60204_1_insulation_minimum(reduced_section: bool = False) -> InsulationM
     )
 
 
-# IEC 60364-6 Table 6.1: (test voltage, current minimum, earlier minimum) [S, REFERENCES §5]
+# IEC 60364-6 Table 6.1: (test voltage, current minimum, earlier minimum) [S, reference values §5]
 _IEC_60364_6 = {
     "SELV/PELV": (250.0, 0.5 * _MEGA, 0.25 * _MEGA),
     "up to 500 V": (500.0, 1.0 * _MEGA, 0.5 * _MEGA),
@@ -344,7 +344,7 @@ def polarization_index(resistance_1min: float, resistance_10min: float) -> float
     return ten / one
 
 
-# IEEE 43 Table 2, minimum PI by thermal class [S, REFERENCES §5]
+# IEEE 43 Table 2, minimum PI by thermal class [S, reference values §5]
 _PI_MINIMUM = {"A": 1.5, "B": 2.0, "F": 2.0, "H": 2.0}
 
 

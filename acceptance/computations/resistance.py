@@ -108,15 +108,15 @@ class ConductorConstant:
         return self.describe()
 
 
-# IEC 60228 Annex B; IEEE 112; IEEE C57.12.90 [S/M, REFERENCES §1]
+# IEC 60228 Annex B; IEEE 112; IEEE C57.12.90 [S/M, reference values §1]
 COPPER_234_5 = ConductorConstant("copper", 234.5, ("IEC 60228", "IEEE 112", "IEEE C57.12.90"), "S")
-# IEC 60034-1 cl. 8.6.2; IEC 60076-2 [S/M, REFERENCES §1]
+# IEC 60034-1 cl. 8.6.2; IEC 60076-2 [S/M, reference values §1]
 COPPER_235 = ConductorConstant("copper", 235.0, ("IEC 60034-1", "IEC 60076-2"), "S")
-# IEC 60034-1; IEC 60076-2; IEEE 112 / C57.12.90 [M, REFERENCES §1]
+# IEC 60034-1; IEC 60076-2; IEEE 112 / C57.12.90 [M, reference values §1]
 ALUMINIUM_225 = ConductorConstant(
     "aluminium", 225.0, ("IEC 60034-1", "IEC 60076-2", "IEEE 112", "IEEE C57.12.90"), "M"
 )
-# IEC 60228 Annex B [S, REFERENCES §1]
+# IEC 60228 Annex B [S, reference values §1]
 ALUMINIUM_228 = ConductorConstant("aluminium", 228.0, ("IEC 60228",), "S")
 
 CONDUCTOR_CONSTANTS: tuple[ConductorConstant, ...] = (
@@ -165,7 +165,7 @@ def conductor_constant(material: str, standard: str) -> ConductorConstant:
 
     References
     ----------
-    See the module docstring; REFERENCES §1.
+    See the module docstring; reference values §1.
     """
     material_name = _material(material)
     wanted = _standard_key(standard)
@@ -281,7 +281,7 @@ class Resistivity:
         )
 
 
-# IEC 60028: 1/58 Ω·mm²/m = 0.017241 Ω·mm²/m [S, REFERENCES §1]
+# IEC 60028: 1/58 Ω·mm²/m = 0.017241 Ω·mm²/m [S, reference values §1]
 ANNEALED_COPPER_RESISTIVITY = Resistivity("copper", 1.0 / 58.0 * 1e-6, 20.0, "IEC 60028", "S")
 # IEC 60889 hard-drawn aluminium, 61 % IACS; also IEC 60287-1-1 Table 1 [M]
 ALUMINIUM_RESISTIVITY = Resistivity(
@@ -354,7 +354,7 @@ class TabulatedResistance:
 
 
 # NEC Chapter 9 Table 8, uncoated copper, d.c. at 75 °C [Ω/1000 ft]: (solid, stranded).
-# 14-8 AWG are REFERENCES §8 [S]; the other rows are from memory [M].
+# 14-8 AWG are reference values §8 [S]; the other rows are from memory [M].
 _NEC_TABLE_8: dict[int, tuple[float | None, float, str]] = {
     18: (7.77, 7.95, "M"),
     16: (4.89, 4.99, "M"),
@@ -374,7 +374,7 @@ _NEC_TABLE_8: dict[int, tuple[float | None, float, str]] = {
 }
 
 # IEC 60228 maximum resistance at 20 °C, plain copper [Ω/km]: (class 1 and 2, class 5).
-# 1.5-6 mm² are REFERENCES §8 [S]; the other rows are from memory [M].
+# 1.5-6 mm² are reference values §8 [S]; the other rows are from memory [M].
 _IEC_60228: dict[float, tuple[float, float, str]] = {
     0.5: (36.0, 39.0, "M"),
     0.75: (24.5, 26.0, "M"),
@@ -666,7 +666,7 @@ class BondingDropLimit:
         return f"ΔU ≤ {self.max_voltage_drop:g} V at {self.test_current:g} A ({self.table_row})"
 
 
-# IEC 60204-1:2005 Table 9, minimum effective cross-section → max drop at 10 A [M, REFERENCES §6]
+# IEC 60204-1:2005 Table 9, minimum effective cross-section → max drop at 10 A [M, reference values §6]
 _IEC_60204_1_TABLE_9 = ((1.0, 3.3), (1.5, 2.6), (2.5, 1.9), (4.0, 1.4))
 
 

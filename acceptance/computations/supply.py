@@ -140,7 +140,7 @@ def iec_60204_1_frequency_window(
                         note=f"{note}: {1 - band:g} … {1 + band:g} of nominal")
 
 
-# ANSI C84.1 Table 1, service voltage: nominal, range A, range B [120 V S; rest M, REFERENCES §3]
+# ANSI C84.1 Table 1, service voltage: nominal, range A, range B [120 V S; rest M, reference values §3]
 _ANSI_C84_1 = {
     "120": (120.0, (114.0, 126.0), (110.0, 127.0), "S"),
     "240": (240.0, (228.0, 252.0), (220.0, 254.0), "M"),
@@ -363,7 +363,7 @@ class DeratingFactor:
     status: str = "S"
 
 
-# NEMA MG 1 Figure 14-1 read at these points, ±0.01 [S, REFERENCES §4]: percent → factor
+# NEMA MG 1 Figure 14-1 read at these points, ±0.01 [S, reference values §4]: percent → factor
 _NEMA_DERATING = (
     (0.5, 1.00), (1.5, 0.97), (2.0, 0.95), (2.5, 0.93), (3.0, 0.89),
     (3.5, 0.85), (4.0, 0.82), (4.5, 0.78), (5.0, 0.76),

@@ -155,7 +155,7 @@ class ThermalClass:
         return self.describe()
 
 
-# IEC 60085:2007 Table 1 [S, REFERENCES §2]
+# IEC 60085:2007 Table 1 [S, reference values §2]
 THERMAL_CLASSES: tuple[ThermalClass, ...] = (
     ThermalClass(90, "Y"),
     ThermalClass(105, "A"),
@@ -230,11 +230,11 @@ class RiseLimit:
 
 
 # IEC 60034-1 Table 7, resistance method, 40 °C coolant [K]:
-# B, F, H [S]; A and E [M] (REFERENCES §2).
+# B, F, H [S]; A and E [M] (reference values §2).
 _IEC_60034_1_RISE = {"A": (60.0, "M"), "E": (75.0, "M"), "B": (80.0, "S"),
                      "F": (105.0, "S"), "H": (125.0, "S")}
 
-# NEMA MG 1 12.43 at 40 °C [K] (REFERENCES §2, S); SF 1.15 has no class H row.
+# NEMA MG 1 12.43 at 40 °C [K] (reference values §2, S); SF 1.15 has no class H row.
 _NEMA_MG_1_RISE = {
     "1.0": {"A": 60.0, "B": 80.0, "F": 105.0, "H": 125.0},
     "1.15": {"A": 70.0, "B": 90.0, "F": 115.0},

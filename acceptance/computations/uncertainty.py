@@ -641,7 +641,7 @@ def instrument_uncertainty(
         Whether to add the resolution contribution. ``None`` (default) adds it
         only when the specification has no digits term and a resolution is
         given: a digits term already bounds the display's quantisation, so
-        counting it again would double it [P]. The example of REFERENCES §11
+        counting it again would double it [P]. The example of reference values §11
         follows this (U = 1.561 V, not 1.562 V).
     reading_unit : str, optional
         Checked against the specification's fixed-term unit. [unitless]
@@ -961,7 +961,7 @@ class MeasurementCategory(IntEnum):
 
     CAT IV: origin of the installation (service entrance, meters); CAT III:
     building installation (distribution boards, fixed wiring, permanently
-    connected motors); CAT II: plugged-in equipment (REFERENCES §14) [S].
+    connected motors); CAT II: plugged-in equipment (reference values §14) [S].
     CAT I, from earlier editions of IEC 61010-1, covers circuits not connected
     to mains [M]; an instrument rated only CAT I is adequate for no mains point.
 
@@ -1064,7 +1064,7 @@ def measurement_category_finding(
 
     References
     ----------
-    .. [1] IEC 61010-2-030:2010, measurement categories [M]; REFERENCES §14 [S].
+    .. [1] IEC 61010-2-030:2010, measurement categories [M]; reference values §14 [S].
     """
     instrument = parse_measurement_category(instrument_category)
     point = parse_measurement_category(point_category)
@@ -1173,13 +1173,13 @@ def calibration_state(
 # Average-responding instruments on distorted waveforms
 
 SINE_CREST_FACTOR = math.sqrt(2.0)
-"""Peak ÷ rms of a sine wave (REFERENCES §9) [S]."""
+"""Peak ÷ rms of a sine wave (reference values §9) [S]."""
 
 SINE_FORM_FACTOR = math.pi / (2.0 * math.sqrt(2.0))
-"""Rms ÷ rectified mean of a sine wave, 1.1107 (REFERENCES §9) [S]."""
+"""Rms ÷ rectified mean of a sine wave, 1.1107 (reference values §9) [S]."""
 
 AVERAGE_RESPONDING_SCALE_FACTOR = SINE_FORM_FACTOR
-"""An average-responding, rms-calibrated meter displays this × mean(|x|) (REFERENCES §9) [S]."""
+"""An average-responding, rms-calibrated meter displays this × mean(|x|) (reference values §9) [S]."""
 
 
 @dataclass(frozen=True)
@@ -1243,7 +1243,7 @@ def average_responding_finding(
 
     References
     ----------
-    .. [1] REFERENCES §9, form and crest factors of common waveforms and the
+    .. [1] reference values §9, form and crest factors of common waveforms and the
        average-responding scale factor [S]; 30–45 % under-reading on
        capacitor-input rectifier currents [P].
     """

@@ -559,7 +559,7 @@ def waveform_metrics(samples: ArrayLike, sample_interval: float,
     ----------
     .. [1] Crest and form factors of the sine, square, triangle and rectified waves, and the
        reading of an average-responding meter relative to the true rms — standard meter
-       tables; see the project's REFERENCES §9.
+       tables; see the project's reference values §9.
     """
     values = _checked_samples(samples, "samples")
     interval = _checked_interval(sample_interval)
@@ -635,7 +635,7 @@ def thd_r_from_thd_f(thd_f: float) -> float:
 
     References
     ----------
-    .. [1] REFERENCES §9: THD-R = THD-F / sqrt(1 + THD-F²). [S]
+    .. [1] reference values §9: THD-R = THD-F / sqrt(1 + THD-F²). [S]
     """
     if not (math.isfinite(thd_f) and thd_f >= 0.0):
         raise ComputationError(f"thd_f {thd_f!r} must be a finite ratio of zero or more")
@@ -803,7 +803,7 @@ def power_quantities(voltage_samples: ArrayLike, current_samples: ArrayLike,
     References
     ----------
     .. [1] IEEE 1459, definitions of true and displacement power factor. [M]
-    .. [2] REFERENCES §9: PF = P/S; DPF = cos φ1; PF = DPF/sqrt(1 + THD-F²). [S]
+    .. [2] reference values §9: PF = P/S; DPF = cos φ1; PF = DPF/sqrt(1 + THD-F²). [S]
     """
     voltage = _checked_samples(voltage_samples, "voltage_samples")
     current = _checked_samples(current_samples, "current_samples")

@@ -40,7 +40,7 @@ TWO_DECIMALS = 5e-3
 @pytest.mark.parametrize(
     ("letter", "lower", "upper"),
     [
-        ("B", -0.001, 0.001),  # IEC 60062 (REFERENCES §13) [M]
+        ("B", -0.001, 0.001),  # IEC 60062 (reference values §13) [M]
         ("C", -0.0025, 0.0025),  # IEC 60062 [M]
         ("D", -0.005, 0.005),  # IEC 60062 [M]
         ("F", -0.01, 0.01),  # IEC 60062 [M]
@@ -60,8 +60,8 @@ def test_tolerance_letters(letter, lower, upper):
 @pytest.mark.parametrize(
     ("letter", "low_uf", "high_uf"),
     [
-        ("J", 17.10, 18.90),  # REFERENCES §13, 18 µF J [M]
-        ("K", 16.2, 19.8),  # REFERENCES §13, 18 µF K [M]
+        ("J", 17.10, 18.90),  # reference values §13, 18 µF J [M]
+        ("K", 16.2, 19.8),  # reference values §13, 18 µF K [M]
         ("Z", 14.4, 32.4),  # IEC 60062 Z −20/+80 % of 18 µF [M]
     ],
 )
@@ -111,8 +111,8 @@ def test_unknown_letter():
 @pytest.mark.parametrize(
     ("frequency", "expected"),
     [
-        (50.0, 176.84),  # REFERENCES §13, 18 µF at 50 Hz [S, Xc = 1/(2πfC)]
-        (60.0, 147.37),  # REFERENCES §13, 18 µF at 60 Hz [S]
+        (50.0, 176.84),  # reference values §13, 18 µF at 50 Hz [S, Xc = 1/(2πfC)]
+        (60.0, 147.37),  # reference values §13, 18 µF at 60 Hz [S]
     ],
 )
 def test_reactance_of_18_uf(frequency, expected):
@@ -120,15 +120,15 @@ def test_reactance_of_18_uf(frequency, expected):
 
 
 def test_current_of_18_uf_at_230_v():
-    # REFERENCES §13: 18 µF at 230 V 50 Hz → 1.3006 A; quoted to four decimals
+    # reference values §13: 18 µF at 230 V 50 Hz → 1.3006 A; quoted to four decimals
     assert capacitor_current(18 * MICRO, 230.0, 50.0) == pytest.approx(1.3006, abs=5e-5)
 
 
 @pytest.mark.parametrize(
     ("frequency", "field_factor", "tolerance"),
     [
-        (50.0, 3183.0, 0.5),  # REFERENCES §13: C[µF] = 3183·I/V at 50 Hz, rounded [P]
-        (60.0, 2652.0, 1.0),  # REFERENCES §13: 2652·I/V at 60 Hz, truncated from 2652.6 [P]
+        (50.0, 3183.0, 0.5),  # reference values §13: C[µF] = 3183·I/V at 50 Hz, rounded [P]
+        (60.0, 2652.0, 1.0),  # reference values §13: 2652·I/V at 60 Hz, truncated from 2652.6 [P]
     ],
 )
 def test_field_estimate_factors(frequency, field_factor, tolerance):
@@ -150,7 +150,7 @@ def test_estimate_inverts_current(capacitance, voltage, frequency):
 
 
 def test_esr_from_dissipation_factor():
-    # ESR ≈ tan δ · Xc (REFERENCES §13) [P]: film capacitor tan δ 0.002, 18 µF at 50 Hz
+    # ESR ≈ tan δ · Xc (reference values §13) [P]: film capacitor tan δ 0.002, 18 µF at 50 Hz
     assert equivalent_series_resistance(0.002, 18 * MICRO, 50.0) == pytest.approx(
         0.002 / (2 * math.pi * 50.0 * 18 * MICRO), rel=FLOAT_RELATIVE
     )
@@ -179,7 +179,7 @@ def test_bad_input(call, message):
 
 
 def test_stored_energy_example():
-    # REFERENCES §7: 470 µF at 565.7 V → 75.2 J, Q 0.266 C, Rmax 4.74 kΩ for 5 s
+    # reference values §7: 470 µF at 565.7 V → 75.2 J, Q 0.266 C, Rmax 4.74 kΩ for 5 s
     # (E = ½CV², Q = CV, Rmax = t/(C ln(V0/60))) [S for IEC 60204-1 cl. 6.2.4 limits]
     assert stored_energy(470 * MICRO, 565.7) == pytest.approx(75.2, abs=0.05)
     assert stored_charge(470 * MICRO, 565.7) == pytest.approx(0.266, abs=5e-4)

@@ -24,7 +24,7 @@ FLOAT_RELATIVE = 1e-12
 
 
 def test_example_40_a_at_50_percent():
-    # REFERENCES §10: 40 A at 50 % → 28.4 A with the NEC Table 630.11(A) multiplier,
+    # reference values §10: 40 A at 50 % → 28.4 A with the NEC Table 630.11(A) multiplier,
     # 28.28 A by √D [S]
     assert 40.0 * nec_630_11_multiplier(0.5).multiplier == pytest.approx(28.4, rel=FLOAT_RELATIVE)
     assert equivalent_thermal_current(40.0, 0.5) == pytest.approx(28.28, abs=5e-3)
@@ -38,11 +38,11 @@ def test_example_40_a_at_50_percent():
     ],
 )
 def test_nec_table_630_11_a_nonmotor_generator(duty_cycle, multiplier):
-    # NEC Table 630.11(A), non-motor-generator welders (REFERENCES §10) [S]
+    # NEC Table 630.11(A), non-motor-generator welders (reference values §10) [S]
     result = nec_630_11_multiplier(duty_cycle)
     assert result.multiplier == multiplier
     assert (result.clause, result.status) == ("Table 630.11(A)", "S")
-    # REFERENCES §10 says the column equals √D rounded to two decimals; that holds for every
+    # reference values §10 says the column equals √D rounded to two decimals; that holds for every
     # row but 60 %, where the table's 0.78 sits above √0.6 = 0.7746 (0.77): within 0.01
     assert multiplier == pytest.approx(math.sqrt(duty_cycle), abs=0.01)
 

@@ -34,7 +34,7 @@ FLOAT_RELATIVE = 1e-12
 
 
 def test_example_180_megohm_at_30_c():
-    # REFERENCES §5: 180 MΩ at 30 °C → 90 MΩ at 40 °C, failing a 100 MΩ minimum that it
+    # reference values §5: 180 MΩ at 30 °C → 90 MΩ at 40 °C, failing a 100 MΩ minimum that it
     # passes as read (IEEE 43, halving per 10 K) [S]
     corrected = insulation_resistance_at_40c(180 * MEGA, 30.0)
     assert corrected == pytest.approx(90 * MEGA, rel=FLOAT_RELATIVE)
@@ -108,12 +108,12 @@ def test_iec_60204_1_minimum():
 @pytest.mark.parametrize(
     ("voltage", "selv", "edition", "test_voltage", "minimum", "edition_text"),
     [
-        # IEC 60364-6 Table 6.1, current edition (REFERENCES §5) [S]
+        # IEC 60364-6 Table 6.1, current edition (reference values §5) [S]
         (24.0, True, "current", 250.0, 0.5, "2016"),
         (230.0, False, "current", 500.0, 1.0, "2016"),
         (500.0, False, "current", 500.0, 1.0, "2016"),
         (690.0, False, "current", 1000.0, 1.0, "2016"),
-        # IEC 60364-6, earlier editions (REFERENCES §5) [S]
+        # IEC 60364-6, earlier editions (reference values §5) [S]
         (24.0, True, "earlier", 250.0, 0.25, "IEC 60364-6-61 (earlier editions)"),
         (400.0, False, "earlier", 500.0, 0.5, "IEC 60364-6-61 (earlier editions)"),
         (1000.0, False, "earlier", 1000.0, 1.0, "IEC 60364-6-61 (earlier editions)"),
@@ -131,7 +131,7 @@ def test_iec_60364_6_table_6_1(voltage, selv, edition, test_voltage, minimum, ed
 @pytest.mark.parametrize(
     ("kind", "voltage", "minimum"),
     [
-        ("pre_1970", 4160.0, 5.16),  # IEEE 43: kV + 1 MΩ (REFERENCES §5) [S]
+        ("pre_1970", 4160.0, 5.16),  # IEEE 43: kV + 1 MΩ (reference values §5) [S]
         (WindingInsulationKind.PRE_1970, 480.0, 1.48),  # IEEE 43: kV + 1 MΩ [S]
         ("form_wound", None, 100.0),  # IEEE 43: 100 MΩ after about 1970 [S]
         ("random_wound", None, 5.0),  # IEEE 43: 5 MΩ random-wound, form-wound < 1 kV [S]
@@ -173,7 +173,7 @@ def test_minimum_passes_at_the_boundary():
 
 
 def test_polarization_index_example():
-    # REFERENCES §5: PI = 1200/500 = 2.40 → passes class F (IEEE 43, ≥ 2.0) [S]
+    # reference values §5: PI = 1200/500 = 2.40 → passes class F (IEEE 43, ≥ 2.0) [S]
     assessment = assess_polarization_index(500 * MEGA, 1200 * MEGA, "F")
     assert assessment.index == pytest.approx(2.40, rel=FLOAT_RELATIVE)
     assert (assessment.minimum, assessment.meaningful, assessment.passes) == (2.0, True, True)
@@ -183,7 +183,7 @@ def test_polarization_index_example():
 @pytest.mark.parametrize(
     ("designation", "minimum"),
     [
-        ("A", 1.5),  # IEEE 43 (REFERENCES §5) [S]
+        ("A", 1.5),  # IEEE 43 (reference values §5) [S]
         (130, 2.0),  # IEEE 43, class B [S]
         ("155 (F)", 2.0),  # IEEE 43, class F [S]
         ("H", 2.0),  # IEEE 43, class H [S]
@@ -200,7 +200,7 @@ def test_polarization_index_for_class_a_at_1_8():
 
 
 def test_polarization_index_not_meaningful_above_5_gigohm():
-    # IEEE 43 (REFERENCES §5): PI not meaningful when IR1 > 5 GΩ [S]
+    # IEEE 43 (reference values §5): PI not meaningful when IR1 > 5 GΩ [S]
     assessment = assess_polarization_index(6e9, 7e9, "F")
     assert (assessment.meaningful, assessment.passes) == (False, None)
     assert assessment.note.startswith("IR1 6000 MΩ is above 5000 MΩ")

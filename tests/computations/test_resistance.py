@@ -49,10 +49,10 @@ FEET = 0.3048  # m, exact by definition of the international foot
 @pytest.mark.parametrize(
     ("constant", "expected"),
     [
-        (COPPER_234_5, 3.0166),  # REFERENCES §1, copper IEC 60228 / IEEE 112 [S]
-        (COPPER_235, 3.0156),  # REFERENCES §1, copper IEC 60034-1 / IEC 60076-2 [S]
-        (ALUMINIUM_225, 3.0364),  # REFERENCES §1, aluminium IEC 60034-1 / IEEE [M]
-        (ALUMINIUM_228, 3.0300),  # REFERENCES §1, aluminium IEC 60228 [S]
+        (COPPER_234_5, 3.0166),  # reference values §1, copper IEC 60228 / IEEE 112 [S]
+        (COPPER_235, 3.0156),  # reference values §1, copper IEC 60034-1 / IEC 60076-2 [S]
+        (ALUMINIUM_225, 3.0364),  # reference values §1, aluminium IEC 60034-1 / IEEE [M]
+        (ALUMINIUM_228, 3.0300),  # reference values §1, aluminium IEC 60228 [S]
     ],
 )
 def test_correction_example_22_to_75_c(constant, expected):
@@ -68,7 +68,7 @@ def test_correction_accepts_a_bare_constant():
 
 
 def test_iec_60228_boundary_example():
-    # REFERENCES §1: 100 m of 2.5 mm² class 2 copper, 0.755 Ω at 25 °C → 7.405 Ω/km at 20 °C,
+    # reference values §1: 100 m of 2.5 mm² class 2 copper, 0.755 Ω at 25 °C → 7.405 Ω/km at 20 °C,
     # inside the IEC 60228 Table 2 maximum of 7.41 Ω/km [S]. Quoted to 3 decimals in Ω/km.
     per_km = resistance_at_temperature(0.755, 25.0, 20.0, COPPER_234_5) * 10.0
     assert per_km == pytest.approx(7.405, abs=5e-4)
@@ -76,7 +76,7 @@ def test_iec_60228_boundary_example():
 
 
 def test_linearised_vendor_factor_is_not_used():
-    # REFERENCES §1 trap: 1/(1 + 0.004·55) = 0.820, the formula gives 0.8223 (IEC 60228 k) [S]
+    # reference values §1 trap: 1/(1 + 0.004·55) = 0.820, the formula gives 0.8223 (IEC 60228 k) [S]
     factor = resistance_at_temperature(1.0, 75.0, 20.0, COPPER_234_5)
     assert factor == pytest.approx(0.8223, abs=FOUR_DECIMALS)
     assert abs(factor - 1.0 / (1.0 + 0.004 * 55.0)) > 2e-3
@@ -98,12 +98,12 @@ def test_alpha_20(constant, published_alpha):
 @pytest.mark.parametrize(
     ("material", "standard", "expected"),
     [
-        ("copper", "IEC 60034-1", COPPER_235),  # REFERENCES §1 [S]
-        ("copper", "IEC 60076-2", COPPER_235),  # REFERENCES §1 [S]
-        ("copper", "IEEE C57.12.90", COPPER_234_5),  # REFERENCES §1 [S]
-        ("Cu", "iec60228", COPPER_234_5),  # REFERENCES §1 [S]
-        ("aluminum", "IEEE 112", ALUMINIUM_225),  # REFERENCES §1 [M]
-        ("aluminium", "IEC 60228", ALUMINIUM_228),  # REFERENCES §1 [S]
+        ("copper", "IEC 60034-1", COPPER_235),  # reference values §1 [S]
+        ("copper", "IEC 60076-2", COPPER_235),  # reference values §1 [S]
+        ("copper", "IEEE C57.12.90", COPPER_234_5),  # reference values §1 [S]
+        ("Cu", "iec60228", COPPER_234_5),  # reference values §1 [S]
+        ("aluminum", "IEEE 112", ALUMINIUM_225),  # reference values §1 [M]
+        ("aluminium", "IEC 60228", ALUMINIUM_228),  # reference values §1 [S]
     ],
 )
 def test_conductor_constant_by_standard(material, standard, expected):
@@ -191,7 +191,7 @@ def test_warmer_is_higher(resistance, first, second, constant):
 
 
 def test_annealed_copper_resistivity():
-    # IEC 60028: 1/58 Ω·mm²/m = 0.017241 Ω·mm²/m (REFERENCES §1) [S]; six decimals quoted
+    # IEC 60028: 1/58 Ω·mm²/m = 0.017241 Ω·mm²/m (reference values §1) [S]; six decimals quoted
     assert ANNEALED_COPPER_RESISTIVITY.resistivity * 1e6 == pytest.approx(0.017241, abs=5e-7)
     assert "IEC 60028" in ANNEALED_COPPER_RESISTIVITY.describe()
 
@@ -217,10 +217,10 @@ def test_conductor_resistance_from_resistivity():
 @pytest.mark.parametrize(
     ("gauge", "solid", "stranded"),
     [
-        (14, 3.07, 3.14),  # NEC Chapter 9 Table 8 (REFERENCES §8) [S]
-        (12, 1.93, 1.98),  # NEC Chapter 9 Table 8 (REFERENCES §8) [S]
-        (10, 1.21, 1.24),  # NEC Chapter 9 Table 8 (REFERENCES §8) [S]
-        (8, 0.764, 0.778),  # NEC Chapter 9 Table 8 (REFERENCES §8) [S]
+        (14, 3.07, 3.14),  # NEC Chapter 9 Table 8 (reference values §8) [S]
+        (12, 1.93, 1.98),  # NEC Chapter 9 Table 8 (reference values §8) [S]
+        (10, 1.21, 1.24),  # NEC Chapter 9 Table 8 (reference values §8) [S]
+        (8, 0.764, 0.778),  # NEC Chapter 9 Table 8 (reference values §8) [S]
     ],
 )
 def test_nec_table_8_published_rows(gauge, solid, stranded):
@@ -253,10 +253,10 @@ def test_nec_table_8_rows_agree_with_resistivity(gauge):
 @pytest.mark.parametrize(
     ("size", "class_12", "class_5"),
     [
-        (1.5, 12.1, 13.3),  # IEC 60228 Tables 2 and 3 (REFERENCES §8) [S]
-        (2.5, 7.41, 7.98),  # IEC 60228 Tables 2 and 3 (REFERENCES §8) [S]
-        (4.0, 4.61, 4.95),  # IEC 60228 Tables 2 and 3 (REFERENCES §8) [S]
-        (6.0, 3.08, 3.30),  # IEC 60228 Tables 2 and 3 (REFERENCES §8) [S]
+        (1.5, 12.1, 13.3),  # IEC 60228 Tables 2 and 3 (reference values §8) [S]
+        (2.5, 7.41, 7.98),  # IEC 60228 Tables 2 and 3 (reference values §8) [S]
+        (4.0, 4.61, 4.95),  # IEC 60228 Tables 2 and 3 (reference values §8) [S]
+        (6.0, 3.08, 3.30),  # IEC 60228 Tables 2 and 3 (reference values §8) [S]
     ],
 )
 def test_iec_60228_published_rows(size, class_12, class_5):
@@ -370,7 +370,7 @@ def test_three_gauges_double_the_area(index):
 
 
 def test_bonding_example_15_m_of_2_5_mm2():
-    # REFERENCES §6: 15 m of 2.5 mm² copper → 15 × 7.41 mΩ = 0.111 Ω at 20 °C [M, IEC 60228 S]
+    # reference values §6: 15 m of 2.5 mm² copper → 15 × 7.41 mΩ = 0.111 Ω at 20 °C [M, IEC 60228 S]
     estimate = expected_bonding_resistance(15.0, 2.5)
     assert estimate.resistance == pytest.approx(15 * 7.41e-3, rel=FLOAT_RELATIVE)
     assert estimate.resistance == pytest.approx(0.111, abs=5e-4)  # quoted to 3 decimals
@@ -393,11 +393,11 @@ def test_bonding_by_resistivity_for_aluminium():
 @pytest.mark.parametrize(
     ("size", "drop", "row"),
     [
-        (1.0, 3.3, "1.0 mm²"),  # IEC 60204-1:2005 Table 9 (REFERENCES §6) [M]
-        (1.5, 2.6, "1.5 mm²"),  # IEC 60204-1:2005 Table 9 (REFERENCES §6) [M]
-        (2.5, 1.9, "2.5 mm²"),  # IEC 60204-1:2005 Table 9 (REFERENCES §6) [M]
-        (4.0, 1.4, "4.0 mm²"),  # IEC 60204-1:2005 Table 9 (REFERENCES §6) [M]
-        (10.0, 1.0, "> 6.0 mm²"),  # IEC 60204-1:2005 Table 9 (REFERENCES §6) [M]
+        (1.0, 3.3, "1.0 mm²"),  # IEC 60204-1:2005 Table 9 (reference values §6) [M]
+        (1.5, 2.6, "1.5 mm²"),  # IEC 60204-1:2005 Table 9 (reference values §6) [M]
+        (2.5, 1.9, "2.5 mm²"),  # IEC 60204-1:2005 Table 9 (reference values §6) [M]
+        (4.0, 1.4, "4.0 mm²"),  # IEC 60204-1:2005 Table 9 (reference values §6) [M]
+        (10.0, 1.0, "> 6.0 mm²"),  # IEC 60204-1:2005 Table 9 (reference values §6) [M]
         (3.0, 1.9, "2.5 mm²"),  # between rows: the branch is at least 2.5 mm²
         (6.0, 1.4, "4.0 mm²"),  # 6.0 is not "> 6.0"
     ],

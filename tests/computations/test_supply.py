@@ -46,7 +46,7 @@ ALPHA = cmath.exp(2j * math.pi / 3)
 
 
 def test_iec_60204_1_example_400_v_50_hz():
-    # REFERENCES §3: 400 V 50 Hz → 360.0-440.0 V and 49.50-50.50 Hz; 432 V at 50.2 Hz
+    # reference values §3: 400 V 50 Hz → 360.0-440.0 V and 49.50-50.50 Hz; 432 V at 50.2 Hz
     # passes (IEC 60204-1 cl. 4.3.2) [M]
     voltage = iec_60204_1_voltage_window(400.0)
     frequency = iec_60204_1_frequency_window(50.0)
@@ -57,7 +57,7 @@ def test_iec_60204_1_example_400_v_50_hz():
 
 
 def test_iec_60204_1_short_time_frequency():
-    # IEC 60204-1 cl. 4.3.2: 0.98-1.02 fn short time (REFERENCES §3) [M]
+    # IEC 60204-1 cl. 4.3.2: 0.98-1.02 fn short time (reference values §3) [M]
     window = iec_60204_1_frequency_window(60.0, short_time=True)
     assert (window.lower, window.upper) == pytest.approx((58.8, 61.2), rel=FLOAT_RELATIVE)
 
@@ -65,10 +65,10 @@ def test_iec_60204_1_short_time_frequency():
 @pytest.mark.parametrize(
     ("system", "range_a", "range_b", "status"),
     [
-        ("120", (114, 126), (110, 127), "S"),  # ANSI C84.1 Table 1 (REFERENCES §3) [S]
-        (240, (228, 252), (220, 254), "M"),  # ANSI C84.1 Table 1 (REFERENCES §3) [M]
-        ("480 V", (456, 504), (440, 508), "M"),  # ANSI C84.1 Table 1 (REFERENCES §3) [M]
-        ("208Y/120", (197, 218), (191, 220), "M"),  # ANSI C84.1 Table 1 (REFERENCES §3) [M]
+        ("120", (114, 126), (110, 127), "S"),  # ANSI C84.1 Table 1 (reference values §3) [S]
+        (240, (228, 252), (220, 254), "M"),  # ANSI C84.1 Table 1 (reference values §3) [M]
+        ("480 V", (456, 504), (440, 508), "M"),  # ANSI C84.1 Table 1 (reference values §3) [M]
+        ("208Y/120", (197, 218), (191, 220), "M"),  # ANSI C84.1 Table 1 (reference values §3) [M]
     ],
 )
 def test_ansi_c84_1_ranges(system, range_a, range_b, status):
@@ -79,7 +79,7 @@ def test_ansi_c84_1_ranges(system, range_a, range_b, status):
 
 
 def test_ansi_example_447_v_on_480_v():
-    # REFERENCES §3: 480 V nominal, 447 V measured → outside Range A, inside Range B [M]
+    # reference values §3: 480 V nominal, 447 V measured → outside Range A, inside Range B [M]
     assert not ansi_c84_1_window(480, "A").contains(447.0)
     assert ansi_c84_1_window(480, "B").contains(447.0)
 
@@ -129,8 +129,8 @@ def _sequence_by_phasors(v_ab: float, v_bc: float, v_ca: float) -> tuple[float, 
 @pytest.mark.parametrize(
     ("voltages", "nema", "sequence"),
     [
-        ((460.0, 467.0, 450.0), 0.01961, 0.02146),  # REFERENCES §4 [S; IEC form M]
-        ((480.0, 476.0, 472.0), 0.00840, 0.00970),  # REFERENCES §4 [S; IEC form M]
+        ((460.0, 467.0, 450.0), 0.01961, 0.02146),  # reference values §4 [S; IEC form M]
+        ((480.0, 476.0, 472.0), 0.00840, 0.00970),  # reference values §4 [S; IEC form M]
     ],
 )
 def test_unbalance_examples(voltages, nema, sequence):
@@ -140,7 +140,7 @@ def test_unbalance_examples(voltages, nema, sequence):
 
 
 def test_sequence_magnitudes_example():
-    # REFERENCES §4: 460/467/450 V → |V1| 458.95 V, |V2| 9.85 V (two decimals)
+    # reference values §4: 460/467/450 V → |V1| 458.95 V, |V2| 9.85 V (two decimals)
     components = voltage_unbalance_sequence(460.0, 467.0, 450.0)
     assert components.positive_sequence == pytest.approx(458.95, abs=5e-3)
     assert components.negative_sequence == pytest.approx(9.85, abs=5e-3)
@@ -151,7 +151,7 @@ def test_sequence_magnitudes_example():
 
 
 def test_max_minus_min_is_not_the_definition():
-    # REFERENCES §4: (max − min)/avg = 3.70 % is wrong for 460/467/450 V
+    # reference values §4: (max − min)/avg = 3.70 % is wrong for 460/467/450 V
     assert (467 - 450) / 459 == pytest.approx(0.0370, abs=5e-5)
     assert abs(voltage_unbalance_nema(460.0, 467.0, 450.0) - 0.0370) > 0.01
 
@@ -215,7 +215,7 @@ def test_degenerate_triangle_is_complete_unbalance():
 
 
 def test_iec_60204_1_unbalance_limit():
-    # IEC 60204-1 cl. 4.3.2: negative sequence ≤ 2 % of positive (REFERENCES §3) [M]
+    # IEC 60204-1 cl. 4.3.2: negative sequence ≤ 2 % of positive (reference values §3) [M]
     limit = iec_60204_1_unbalance_limit()
     assert limit.passes(0.02) and not limit.passes(0.02146)
     assert limit.describe() == "unbalance ≤ 2 % (negative-to-positive sequence)"
@@ -229,7 +229,7 @@ def test_iec_60204_1_unbalance_limit():
     ],
 )
 def test_nema_derating_points(percent, factor):
-    # NEMA MG 1 Figure 14-1 read off the curve (REFERENCES §4) [S, ±0.01]; the points
+    # NEMA MG 1 Figure 14-1 read off the curve (reference values §4) [S, ±0.01]; the points
     # themselves are reproduced exactly
     result = nema_derating_factor(percent / 100)
     assert result.factor == pytest.approx(factor, abs=1e-12)
@@ -237,7 +237,7 @@ def test_nema_derating_points(percent, factor):
 
 
 def test_nema_derating_interpolates_and_stops_at_5_percent():
-    # between 0.5 % (1.00) and 1.5 % (0.97): linear, 0.985 at 1 % (REFERENCES §4) [S ±0.01]
+    # between 0.5 % (1.00) and 1.5 % (0.97): linear, 0.985 at 1 % (reference values §4) [S ±0.01]
     assert nema_derating_factor(0.01).factor == pytest.approx(0.985, abs=1e-12)
     beyond = nema_derating_factor(0.06)
     assert (beyond.factor, beyond.advised) == (None, False)
@@ -254,7 +254,7 @@ def test_derating_never_rises_with_unbalance(first, second):
 
 
 def test_voltage_drop_example_12_awg():
-    # REFERENCES §8: 12 AWG stranded (NEC Ch. 9 Table 8, 1.98 Ω/1000 ft at 75 °C), 100 ft
+    # reference values §8: 12 AWG stranded (NEC Ch. 9 Table 8, 1.98 Ω/1000 ft at 75 °C), 100 ft
     # one-way, 16 A, 120 V → 6.336 V = 5.28 %, exceeding the 3 % of NEC 210.19(A) [S]
     per_metre = nec_table_8_resistance(12, "stranded").resistance_per_length
     drop = cable_voltage_drop(16.0, 100 * FEET, per_metre, nominal_voltage=120.0)
@@ -265,7 +265,7 @@ def test_voltage_drop_example_12_awg():
 
 
 def test_voltage_drop_example_cord_at_20_and_70_c():
-    # REFERENCES §8: 6 m two-core 2.5 mm² class 5 cord (IEC 60228 7.98 Ω/km), 16 A, 230 V,
+    # reference values §8: 6 m two-core 2.5 mm² class 5 cord (IEC 60228 7.98 Ω/km), 16 A, 230 V,
     # resistive: 1.532 V (0.666 %) at 20 °C; 1.833 V (0.797 %) at 70 °C [S]
     per_metre = iec_60228_resistance(2.5, 5).resistance_per_length
     cold = cable_voltage_drop(16.0, 6.0, per_metre, nominal_voltage=230.0)
@@ -296,10 +296,10 @@ def test_three_phase_drop_formula():
 @pytest.mark.parametrize(
     ("supply", "load", "limit"),
     [
-        ("public", "lighting", 0.03),  # IEC 60364-5-52 Annex G (REFERENCES §8) [S]
-        ("public", "other", 0.05),  # IEC 60364-5-52 Annex G (REFERENCES §8) [S]
-        ("private", "lighting", 0.06),  # IEC 60364-5-52 Annex G (REFERENCES §8) [S]
-        ("private", "other", 0.08),  # IEC 60364-5-52 Annex G (REFERENCES §8) [S]
+        ("public", "lighting", 0.03),  # IEC 60364-5-52 Annex G (reference values §8) [S]
+        ("public", "other", 0.05),  # IEC 60364-5-52 Annex G (reference values §8) [S]
+        ("private", "lighting", 0.06),  # IEC 60364-5-52 Annex G (reference values §8) [S]
+        ("private", "other", 0.08),  # IEC 60364-5-52 Annex G (reference values §8) [S]
     ],
 )
 def test_iec_recommended_drop(supply, load, limit):
@@ -308,7 +308,7 @@ def test_iec_recommended_drop(supply, load, limit):
 
 
 def test_nec_recommended_drop():
-    # NEC 210.19(A) informational note: 3 % branch, 5 % total (REFERENCES §8) [S]
+    # NEC 210.19(A) informational note: 3 % branch, 5 % total (reference values §8) [S]
     assert nec_210_19_recommended_drop("branch").limit == 0.03
     total = nec_210_19_recommended_drop("total")
     assert total.limit == 0.05

@@ -38,7 +38,7 @@ FLOAT_RELATIVE = 1e-12
 
 
 def test_rise_example_small_winding():
-    # REFERENCES §2: R1 0.200 Ω at 20 °C, R2 0.210 Ω, θa 25 °C, k 235 → 7.75 K
+    # reference values §2: R1 0.200 Ω at 20 °C, R2 0.210 Ω, θa 25 °C, k 235 → 7.75 K
     # (IEC 60034-1 cl. 8.6.2) [S]
     rise = temperature_rise_by_resistance(0.200, 0.210, 20.0, 25.0, COPPER_235)
     assert rise == pytest.approx(7.75, abs=TWO_DECIMALS)
@@ -47,9 +47,9 @@ def test_rise_example_small_winding():
 @pytest.mark.parametrize(
     ("constant", "expected"),
     [
-        (COPPER_235, 69.69),  # REFERENCES §2, IEC 60034-1 copper [S]
-        (COPPER_234_5, 69.53),  # REFERENCES §2, IEEE 112 copper [S]
-        (ALUMINIUM_225, 66.56),  # REFERENCES §2, IEC 60034-1 aluminium [S]
+        (COPPER_235, 69.69),  # reference values §2, IEC 60034-1 copper [S]
+        (COPPER_234_5, 69.53),  # reference values §2, IEEE 112 copper [S]
+        (ALUMINIUM_225, 66.56),  # reference values §2, IEC 60034-1 aluminium [S]
     ],
 )
 def test_rise_example_by_constant(constant, expected):
@@ -114,7 +114,7 @@ def test_rise_rejects_bad_input(arguments, message):
 @pytest.mark.parametrize(
     ("designation", "temperature", "letter"),
     [
-        (90, 90, "Y"),  # IEC 60085 Table 1 (REFERENCES §2) [S]
+        (90, 90, "Y"),  # IEC 60085 Table 1 (reference values §2) [S]
         ("A", 105, "A"),  # IEC 60085 Table 1 [S]
         ("120", 120, "E"),  # IEC 60085 Table 1 [S]
         ("class B", 130, "B"),  # IEC 60085 Table 1 [S]
@@ -153,10 +153,10 @@ def test_unknown_thermal_class(designation):
 @pytest.mark.parametrize(
     ("designation", "limit", "status"),
     [
-        ("E", 75.0, "M"),  # IEC 60034-1 Table 7, by resistance (REFERENCES §2) [M]
-        ("B", 80.0, "S"),  # IEC 60034-1 Table 7, by resistance (REFERENCES §2) [S]
-        ("F", 105.0, "S"),  # IEC 60034-1 Table 7, by resistance (REFERENCES §2) [S]
-        ("H", 125.0, "S"),  # IEC 60034-1 Table 7, by resistance (REFERENCES §2) [S]
+        ("E", 75.0, "M"),  # IEC 60034-1 Table 7, by resistance (reference values §2) [M]
+        ("B", 80.0, "S"),  # IEC 60034-1 Table 7, by resistance (reference values §2) [S]
+        ("F", 105.0, "S"),  # IEC 60034-1 Table 7, by resistance (reference values §2) [S]
+        ("H", 125.0, "S"),  # IEC 60034-1 Table 7, by resistance (reference values §2) [S]
         ("A", 60.0, "M"),  # IEC 60034-1 Table 7, by resistance [M]
     ],
 )
@@ -216,13 +216,13 @@ def test_limits_reject_what_they_do_not_cover(call, message):
 @pytest.mark.parametrize(
     ("designation", "service_factor", "limit"),
     [
-        ("A", 1.0, 60.0),  # NEMA MG 1, SF 1.0 at 40 °C (REFERENCES §2) [S]
-        ("B", 1.0, 80.0),  # NEMA MG 1, SF 1.0 at 40 °C (REFERENCES §2) [S]
-        ("F", 1.0, 105.0),  # NEMA MG 1, SF 1.0 at 40 °C (REFERENCES §2) [S]
-        ("H", 1.0, 125.0),  # NEMA MG 1, SF 1.0 at 40 °C (REFERENCES §2) [S]
-        ("A", 1.15, 70.0),  # NEMA MG 1, SF 1.15 at 40 °C (REFERENCES §2) [S]
-        ("B", 1.15, 90.0),  # NEMA MG 1, SF 1.15 at 40 °C (REFERENCES §2) [S]
-        ("F", 1.15, 115.0),  # NEMA MG 1, SF 1.15 at 40 °C (REFERENCES §2) [S]
+        ("A", 1.0, 60.0),  # NEMA MG 1, SF 1.0 at 40 °C (reference values §2) [S]
+        ("B", 1.0, 80.0),  # NEMA MG 1, SF 1.0 at 40 °C (reference values §2) [S]
+        ("F", 1.0, 105.0),  # NEMA MG 1, SF 1.0 at 40 °C (reference values §2) [S]
+        ("H", 1.0, 125.0),  # NEMA MG 1, SF 1.0 at 40 °C (reference values §2) [S]
+        ("A", 1.15, 70.0),  # NEMA MG 1, SF 1.15 at 40 °C (reference values §2) [S]
+        ("B", 1.15, 90.0),  # NEMA MG 1, SF 1.15 at 40 °C (reference values §2) [S]
+        ("F", 1.15, 115.0),  # NEMA MG 1, SF 1.15 at 40 °C (reference values §2) [S]
         ("F", 1.25, 115.0),  # NEMA MG 1: the 1.15 row covers "1.15 or higher" [S]
     ],
 )
@@ -234,7 +234,7 @@ def test_nema_mg_1_limits(designation, service_factor, limit):
 
 @given(st.sampled_from(["A", "B", "F"]))
 def test_service_factor_row_is_ten_kelvin_higher(letter):
-    # NEMA MG 1 (REFERENCES §2): the SF 1.15 row sits 10 K above the SF 1.0 row [S]
+    # NEMA MG 1 (reference values §2): the SF 1.15 row sits 10 K above the SF 1.0 row [S]
     assert nema_mg_1_rise_limit(letter, 1.15).limit - nema_mg_1_rise_limit(letter, 1.0).limit == 10
 
 

@@ -26,7 +26,7 @@ from acceptance.computations.thermography import (
 S = ThermalSeverity
 
 
-# NETA MTS/ATS thermographic table (REFERENCES §12) [S, table number M]: over a similar
+# NETA MTS/ATS thermographic table (reference values §12) [S, table number M]: over a similar
 # component 1-3 possible, 4-15 probable, > 15 major. The 3 → 4 gap is closed as "ΔT < 4
 # is possible" (module docstring).
 @pytest.mark.parametrize(
@@ -49,7 +49,7 @@ def test_over_similar_component(delta, severity):
     assert severity_over_similar(delta) is severity
 
 
-# NETA MTS/ATS (REFERENCES §12) [S]: over ambient 1-10 possible, 11-20 probable, 21-40
+# NETA MTS/ATS (reference values §12) [S]: over ambient 1-10 possible, 11-20 probable, 21-40
 # monitor, > 40 major. Gaps 10 → 11 and 20 → 21 are closed downwards.
 @pytest.mark.parametrize(
     ("delta", "severity"),
@@ -106,7 +106,7 @@ def test_severity_never_falls_as_the_difference_grows(first, second):
     ],
 )
 def test_survey_takes_the_worse_comparison(component, similar, ambient, severity, governing):
-    # REFERENCES §12: take the worse of the two comparisons
+    # reference values §12: take the worse of the two comparisons
     finding = classify_thermal_survey(component, similar, ambient)
     assert (finding.severity, finding.governing_comparison) == (severity, governing)
     assert finding.action == severity.action
@@ -144,7 +144,7 @@ def test_survey_rejects_bad_input(arguments, message):
 @pytest.mark.parametrize(
     ("kwargs", "temperature", "clause"),
     [
-        # ≤ 100 A → 60 °C (NEC 110.14(C)(1)(a), REFERENCES §12) [S]
+        # ≤ 100 A → 60 °C (NEC 110.14(C)(1)(a), reference values §12) [S]
         ({"circuit_rating": 100.0}, 60.0, "110.14(C)(1)(a)"),
         ({"circuit_rating": 20.0, "marked_conductor_gauge": 12}, 60.0, "110.14(C)(1)(a)"),
         # > 100 A → 75 °C (NEC 110.14(C)(1)(b)) [S]

@@ -47,13 +47,13 @@ FLOAT_RELATIVE = 1e-12
 
 
 # --------------------------------------------------------------------------------------------
-# The worked example of REFERENCES §11: 230.4 V, ±(0.5 % of reading + 2 digits), 0.1 V,
+# The worked example of reference values §11: 230.4 V, ±(0.5 % of reading + 2 digits), 0.1 V,
 # window 207–253 V.
 
-EXAMPLE_READING = 230.4  # V, REFERENCES §11 [S]
-EXAMPLE_SPEC = "±(0.5 % of reading + 2 digits)"  # REFERENCES §11 [S]
-EXAMPLE_RESOLUTION = 0.1  # V, REFERENCES §11 [S]
-EXAMPLE_LOWER, EXAMPLE_UPPER = 207.0, 253.0  # V, REFERENCES §11 [S]
+EXAMPLE_READING = 230.4  # V, reference values §11 [S]
+EXAMPLE_SPEC = "±(0.5 % of reading + 2 digits)"  # reference values §11 [S]
+EXAMPLE_RESOLUTION = 0.1  # V, reference values §11 [S]
+EXAMPLE_LOWER, EXAMPLE_UPPER = 207.0, 253.0  # V, reference values §11 [S]
 
 
 @pytest.fixture
@@ -64,14 +64,14 @@ def example_budget():
 
 def test_example_half_width():
     spec = parse_accuracy_specification(EXAMPLE_SPEC)
-    # REFERENCES §11: a = 0.005 × 230.4 V + 2 × 0.1 V = 1.352 V [S]
+    # reference values §11: a = 0.005 × 230.4 V + 2 × 0.1 V = 1.352 V [S]
     assert spec.limit(EXAMPLE_READING, resolution=EXAMPLE_RESOLUTION) == pytest.approx(
         1.352, rel=FLOAT_RELATIVE
     )
 
 
 def test_example_standard_uncertainty(example_budget):
-    # REFERENCES §11 / JCGM 100:2008 cl. 4.3.7: u = a/√3 = 0.781 V [S]
+    # reference values §11 / JCGM 100:2008 cl. 4.3.7: u = a/√3 = 0.781 V [S]
     assert_allclose(example_budget.combined_standard_uncertainty, 0.781, atol=THREE_DECIMALS)
     assert_allclose(
         example_budget.combined_standard_uncertainty, 1.352 / math.sqrt(3), rtol=FLOAT_RELATIVE
@@ -79,13 +79,13 @@ def test_example_standard_uncertainty(example_budget):
 
 
 def test_example_expanded_uncertainty(example_budget):
-    # REFERENCES §11 / JCGM 100:2008 cl. 6.2.1, 6.3.3: U = 2u = 1.561 V [S]
+    # reference values §11 / JCGM 100:2008 cl. 6.2.1, 6.3.3: U = 2u = 1.561 V [S]
     assert example_budget.coverage_factor == 2.0
     assert_allclose(example_budget.expanded_uncertainty, 1.561, atol=THREE_DECIMALS)
 
 
 def test_example_budget_lines(example_budget):
-    # REFERENCES §11: the digits term already covers the display, one contribution only [S]
+    # reference values §11: the digits term already covers the display, one contribution only [S]
     (line,) = example_budget.contributions
     assert line.distribution is Distribution.RECTANGULAR
     assert line.half_width == pytest.approx(1.352, rel=FLOAT_RELATIVE)
@@ -96,7 +96,7 @@ def test_example_budget_lines(example_budget):
 
 @pytest.mark.parametrize("rule", list(DecisionRule))
 def test_example_passes_under_both_rules(example_budget, rule):
-    # REFERENCES §11: pass under simple and guarded acceptance [S]
+    # reference values §11: pass under simple and guarded acceptance [S]
     decision = decide_conformity(
         EXAMPLE_READING,
         lower_limit=EXAMPLE_LOWER,
@@ -159,7 +159,7 @@ def test_resolution_term_when_asked(example_budget):
     )
     expected = math.sqrt((1.352 / math.sqrt(3)) ** 2 + (0.1 / (2 * math.sqrt(3))) ** 2)
     assert_allclose(budget.combined_standard_uncertainty, expected, rtol=FLOAT_RELATIVE)
-    # the published 1.561 V leaves this term out: with it U rounds to 1.562 V [S, REFERENCES §11]
+    # the published 1.561 V leaves this term out: with it U rounds to 1.562 V [S, reference values §11]
     assert abs(budget.expanded_uncertainty - 1.561) > THREE_DECIMALS
 
 
@@ -629,11 +629,11 @@ def test_centre_of_window_with_small_u_is_at_least_half(centre, half_width, frac
 
 
 # --------------------------------------------------------------------------------------------
-# Measurement categories (IEC 61010; REFERENCES §14 [S])
+# Measurement categories (IEC 61010; reference values §14 [S])
 
 
 def test_cat_ii_600_on_cat_iii_400_is_a_finding():
-    # REFERENCES §14: category and voltage rating at least those of the point [S]
+    # reference values §14: category and voltage rating at least those of the point [S]
     finding = measurement_category_finding("CAT II", 600, "CAT III", 400)
     assert not finding.adequate
     assert finding.phrase == (
@@ -728,10 +728,10 @@ def test_due_date_before_calibration_is_refused():
 
 
 # --------------------------------------------------------------------------------------------
-# Average-responding instruments (REFERENCES §9)
+# Average-responding instruments (reference values §9)
 
 
-# REFERENCES §9 [S for meter tables]: form factor, average-responding reading ÷ true rms;
+# reference values §9 [S for meter tables]: form factor, average-responding reading ÷ true rms;
 # table to three decimals, hence 5e-4.
 @pytest.mark.parametrize(
     ("form_factor", "ratio"),
@@ -748,7 +748,7 @@ def test_reading_ratio_matches_waveform_table(form_factor, ratio):
 
 
 def test_rectifier_current_is_flagged():
-    # REFERENCES §9 [P]: capacitor-input rectifier current, crest factor 2.5–4.5
+    # reference values §9 [P]: capacitor-input rectifier current, crest factor 2.5–4.5
     finding = average_responding_finding(False, crest_factor=3.0)
     assert finding.flagged
     assert finding.phrase == (
@@ -758,7 +758,7 @@ def test_rectifier_current_is_flagged():
 
 
 def test_half_wave_reading_ratio_in_phrase():
-    # REFERENCES §9 [S]: half-wave rectified, FF 1.5708, reading ÷ rms 0.707
+    # reference values §9 [S]: half-wave rectified, FF 1.5708, reading ÷ rms 0.707
     finding = average_responding_finding(False, form_factor=1.5708)
     assert finding.flagged
     assert finding.phrase.endswith("it reads about 70.7 % of the true rms")

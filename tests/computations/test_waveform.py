@@ -1,4 +1,4 @@
-"""Waveform computations against REFERENCES §9, closed forms, numpy.fft and a circuit model."""
+"""Waveform computations against reference values §9, closed forms, numpy.fft and a circuit model."""
 
 from __future__ import annotations
 
@@ -48,7 +48,7 @@ WAVES = {
 }
 
 # Form factor, crest factor, average-responding reading / true rms, peak 1, d.c.-coupled.
-# REFERENCES §9, meter tables [S]; the full-wave row follows because |sin| has the same
+# reference values §9, meter tables [S]; the full-wave row follows because |sin| has the same
 # distribution of |x| as the sine [S: identity]. Exact closed forms beside the table figures.
 TABLE = {
     "sine": ((1.1107, 1.4142, 1.000),
@@ -78,7 +78,7 @@ def test_form_crest_and_meter_factors_match_the_meter_tables(name: str) -> None:
 
 
 def test_average_responding_scale_is_the_sine_form_factor() -> None:
-    # REFERENCES §9: π/(2√2) = 1.1107 [S]
+    # reference values §9: π/(2√2) = 1.1107 [S]
     assert AVERAGE_RESPONDING_SCALE == pytest.approx(1.1107207345, rel=1e-10)
 
 
@@ -98,7 +98,7 @@ def test_half_wave_rectified_a_c_coupled_reading_removes_the_d_c_component() -> 
 
 
 def _published_example(phase_shift_degrees: float) -> tuple[np.ndarray, np.ndarray, float]:
-    """REFERENCES §9 example: I3/I1 0.85, I5 0.60, I7 0.35, I9 0.15, I11 0.10."""
+    """reference values §9 example: I3/I1 0.85, I5 0.60, I7 0.35, I9 0.15, I11 0.10."""
     fs = 12_800.0
     t = np.arange(int(0.2 * fs)) / fs
     omega = 2 * math.pi * 50.0
@@ -115,7 +115,7 @@ def test_published_harmonic_example_gives_thd_f_thd_r_and_power_factor() -> None
     voltage, current, interval = _published_example(math.degrees(math.acos(dpf)))
     spectrum = harmonic_spectrum(current, interval)
     thd_f = math.sqrt(0.85**2 + 0.60**2 + 0.35**2 + 0.15**2 + 0.10**2)
-    # REFERENCES §9: THD-F 111.2 %, THD-R 74.4 % [S]; the window holds 10 whole cycles, so
+    # reference values §9: THD-F 111.2 %, THD-R 74.4 % [S]; the window holds 10 whole cycles, so
     # the DFT is exact and agrees with the closed form to rounding.
     assert spectrum.thd_f == pytest.approx(thd_f, rel=1e-9)
     assert 100 * spectrum.thd_f == pytest.approx(111.2, abs=0.05)
@@ -123,7 +123,7 @@ def test_published_harmonic_example_gives_thd_f_thd_r_and_power_factor() -> None
     assert spectrum.percent_of_fundamental[2] == pytest.approx(85.0, rel=1e-9)
     assert spectrum.window_cycles == 10 and spectrum.iec_window
     power = power_quantities(voltage, current, interval)
-    # REFERENCES §9: PF = DPF/sqrt(1 + THD-F²) = 0.655 with DPF 0.98 [S]
+    # reference values §9: PF = DPF/sqrt(1 + THD-F²) = 0.655 with DPF 0.98 [S]
     assert power.displacement_power_factor == pytest.approx(dpf, rel=1e-9)
     assert power.power_factor == pytest.approx(dpf / math.sqrt(1 + thd_f**2), rel=1e-9)
     assert power.power_factor == pytest.approx(0.655, abs=5e-4)
@@ -132,7 +132,7 @@ def test_published_harmonic_example_gives_thd_f_thd_r_and_power_factor() -> None
 
 
 def test_thd_r_follows_from_thd_f() -> None:
-    # REFERENCES §9: THD-R = THD-F/sqrt(1 + THD-F²) [S]; 1.112 → 0.744
+    # reference values §9: THD-R = THD-F/sqrt(1 + THD-F²) [S]; 1.112 → 0.744
     assert thd_r_from_thd_f(1.1124) == pytest.approx(0.7437, abs=1e-4)
     assert thd_r_from_thd_f(0.0) == 0.0
     with pytest.raises(ComputationError, match="thd_f -0.1 must be a finite ratio"):
@@ -273,7 +273,7 @@ def test_capacitor_input_rectifier_line_current() -> None:
                                     load_resistance=28.0)
     metrics = waveform_metrics(run.line_current, run.sample_interval)
     power = power_quantities(run.terminal_voltage, run.line_current, run.sample_interval)
-    # REFERENCES §9 [P, common practice]: crest factor roughly 2.5–4.5; an average-responding
+    # reference values §9 [P, common practice]: crest factor roughly 2.5–4.5; an average-responding
     # clamp under-reads by 30–45 %; PF roughly 0.4–0.7.
     assert 2.5 <= metrics.crest_factor <= 4.5
     under_reading = 1 - metrics.average_responding_ac / metrics.rms
