@@ -666,7 +666,8 @@ class BondingDropLimit:
         return f"ΔU ≤ {self.max_voltage_drop:g} V at {self.test_current:g} A ({self.table_row})"
 
 
-# IEC 60204-1:2005 Table 9, minimum effective cross-section → max drop at 10 A [M, reference values §6]
+# IEC 60204-1:2005 Table 9, minimum effective cross-section → max drop at 10 A
+# [M, reference values §6]
 _IEC_60204_1_TABLE_9 = ((1.0, 3.3), (1.5, 2.6), (2.5, 1.9), (4.0, 1.4))
 
 

@@ -140,7 +140,8 @@ def iec_60204_1_frequency_window(
                         note=f"{note}: {1 - band:g} … {1 + band:g} of nominal")
 
 
-# ANSI C84.1 Table 1, service voltage: nominal, range A, range B [120 V S; rest M, reference values §3]
+# ANSI C84.1 Table 1, service voltage: nominal, range A, range B
+# [120 V S; rest M, reference values §3]
 _ANSI_C84_1 = {
     "120": (120.0, (114.0, 126.0), (110.0, 127.0), "S"),
     "240": (240.0, (228.0, 252.0), (220.0, 254.0), "M"),

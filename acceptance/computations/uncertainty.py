@@ -1179,7 +1179,7 @@ SINE_FORM_FACTOR = math.pi / (2.0 * math.sqrt(2.0))
 """Rms ÷ rectified mean of a sine wave, 1.1107 (reference values §9) [S]."""
 
 AVERAGE_RESPONDING_SCALE_FACTOR = SINE_FORM_FACTOR
-"""An average-responding, rms-calibrated meter displays this × mean(|x|) (reference values §9) [S]."""
+"""An average-responding, rms-calibrated meter shows this × mean(|x|) [S, reference values §9]."""
 
 
 @dataclass(frozen=True)

@@ -159,7 +159,8 @@ def test_resolution_term_when_asked(example_budget):
     )
     expected = math.sqrt((1.352 / math.sqrt(3)) ** 2 + (0.1 / (2 * math.sqrt(3))) ** 2)
     assert_allclose(budget.combined_standard_uncertainty, expected, rtol=FLOAT_RELATIVE)
-    # the published 1.561 V leaves this term out: with it U rounds to 1.562 V [S, reference values §11]
+    # the published 1.561 V leaves this term out: with it U rounds to 1.562 V
+    # [S, reference values §11]
     assert abs(budget.expanded_uncertainty - 1.561) > THREE_DECIMALS
 
 

@@ -1,4 +1,4 @@
-"""Waveform computations against reference values §9, closed forms, numpy.fft and a circuit model."""
+"""Waveform computations against reference values §9, closed forms, numpy.fft and a model."""
 
 from __future__ import annotations
 
