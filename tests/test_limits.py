@@ -34,7 +34,7 @@ def test_documented_values():
 
 
 def test_too_many_machines(make_job, monkeypatch):
-    monkeypatch.setattr(loading, "MAX_MACHINES", 2)
+    monkeypatch.setattr(loading.job, "MAX_MACHINES", 2)
     root = make_job(files={f"machines/m{n}/machine.yaml": DEFAULT_MACHINE for n in (2, 3)})
     assert problems_of(root) == [
         "job/machines:1:1: 3 machines; the limit is 2: split the site into several job "
@@ -42,7 +42,7 @@ def test_too_many_machines(make_job, monkeypatch):
 
 
 def test_too_many_visits(make_job, monkeypatch):
-    monkeypatch.setattr(loading, "MAX_VISITS_PER_MACHINE", 2)
+    monkeypatch.setattr(loading.job, "MAX_VISITS_PER_MACHINE", 2)
     root = make_job(visits={"v1": {}, "v2": {}, "v3": {}})
     assert problems_of(root) == [
         "job/machines/m1/visits:1:1: 3 visits; the limit is 2 per machine: split the record, "

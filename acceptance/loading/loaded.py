@@ -1,0 +1,166 @@
+"""What a loaded job folder is made of: the loaded files, readings, element names."""
+
+from __future__ import annotations
+
+import difflib
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+from ..model import (
+    Checklist,
+    ChecklistItem,
+    Instrument,
+    JobFile,
+    MachineFile,
+    Nameplate,
+    VisitFile,
+)
+from ..units import Dimension, Quantity
+from ..units import unit_dimension as _unit_dimension
+from ..yamlfile import Document
+
+JOB_FILE = "job.yaml"
+INSTRUMENTS_FILE = "instruments.yaml"
+MACHINES_DIR = "machines"
+VISITS_DIR = "visits"
+MAX_MACHINES = 2000
+MAX_VISITS_PER_MACHINE = 200
+
+_UNVALIDATED: Any = None  # placeholder for an instrument whose entry has problems
+
+
+class _UnreadRegister(dict[str, Instrument]):
+    """Stands for a register that could not be read: it may hold any id."""
+
+    def __contains__(self, key: object) -> bool:
+        return True
+
+_CONFIRM_TRUE = {"yes", "y", "done", "confirmed", "true"}
+_CONFIRM_FALSE = {"no", "n", "not done", "false"}
+_NOT_APPLICABLE = {"n/a", "na", "not applicable"}
+
+
+@dataclass(frozen=True)
+class Reading:
+    """One recorded value of one checklist item (one element of it, where per-element)."""
+
+    checklist: str
+    item: str
+    element: str | None
+    value: Quantity | bool | None  # None: left blank (not tested)
+    not_applicable: bool
+    instrument: str | None
+    extras: dict[str, Quantity]
+    note: str | None
+    file: str
+    line: int
+    range: Quantity | None = None  # the instrument range, when the reading names one
+    capture: Any = None  # a CaptureAnalysis when a scope capture is attached
+
+
+@dataclass
+class LoadedChecklist:
+    model: Checklist
+    document: Document
+    origin: str  # "built-in" or the job-relative path
+
+    @property
+    def id(self) -> str:
+        return self.model.checklist
+
+    def item(self, item_id: str) -> ChecklistItem | None:
+        return next((i for i in self.model.items if i.id == item_id), None)
+
+
+@dataclass
+class LoadedVisit:
+    id: str
+    machine_id: str
+    path: Path
+    document: Document
+    model: VisitFile
+    readings: dict[tuple[str, str], list[Reading]] = field(default_factory=dict)
+    # Sign-off records (integrity.SignatureFile), kept outside the files they cover.
+    signatures: list[Any] = field(default_factory=list)
+    # Readings after adjustment or repair on the same visit (VisitFile.as_left).
+    as_left: dict[tuple[str, str], list[Reading]] = field(default_factory=dict)
+
+
+@dataclass
+class LoadedMachine:
+    id: str
+    folder: Path
+    document: Document
+    model: MachineFile
+    visits: list[LoadedVisit] = field(default_factory=list)
+
+
+@dataclass
+class Job:
+    root: Path
+    document: Document
+    model: JobFile
+    instruments: dict[str, Instrument]
+    instruments_document: Document | None
+    checklists: dict[str, LoadedChecklist]
+    machines: list[LoadedMachine]
+
+
+# ------------------------------------------------------------------ helpers
+
+
+def unit_dimension(unit: str) -> Dimension:
+    return _unit_dimension(unit)
+
+
+def element_names(kind: str, nameplate: Nameplate, survey_ids: list[str],
+                  bonding_ids: list[str] | None = None) -> list[str | None]:
+    three = nameplate.phases == 3
+    if kind == "single":
+        return [None]
+    if kind == "line":
+        return ["L1-L2", "L2-L3", "L3-L1"] if three else ["L-N"]
+    if kind == "phase":
+        return ["L1", "L2", "L3"] if three else ["L"]
+    if kind == "isolation_point":
+        if three:
+            points = ["L1-L2", "L2-L3", "L3-L1", "L1-PE", "L2-PE", "L3-PE"]
+            return [*points, "N-PE"] if nameplate.neutral else points
+        return ["L-N", "L-PE", "N-PE"]
+    if kind == "winding":
+        return [w.id for w in nameplate.windings]
+    if kind == "capacitor":
+        return [c.id for c in nameplate.capacitors]
+    if kind == "survey_point":
+        return list(survey_ids)
+    if kind == "bonding_point":
+        return list(bonding_ids or [])
+    raise ValueError(kind)  # pragma: no cover - guarded by the model's Literal
+
+
+def _suggest(word: str, known: list[str]) -> str:
+    close = difflib.get_close_matches(word, known, n=1, cutoff=0.6)
+    if close:
+        return f"; did you mean '{close[0]}'?"
+    if known and len(known) <= 12:
+        return "; known: " + ", ".join(known)
+    return ""
+
+def _resolve(folder: Path, relative: Path) -> tuple[Path, str | None]:
+    """``folder / relative`` with links resolved, or why the system cannot look it up."""
+    try:
+        resolved = (folder / relative).resolve()
+        resolved.is_file()  # a name too long for the file system fails here, not above
+    except OSError as error:
+        return folder, f"cannot be looked up: {error.strerror}; check the file name"
+    return resolved, None
+
+def _shown(path: str) -> str:
+    return path if len(path) <= 80 else path[:77] + "..."
+
+_UNPRINTABLE_PATH = ("the path holds a control character (a NUL, tab or line break); "
+                     "write the file name as it appears in the folder")
+
+def _unprintable(path: str) -> bool:
+    return any(ord(character) < 32 or ord(character) == 127 for character in str(path))
