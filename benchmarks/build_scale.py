@@ -212,6 +212,8 @@ def main() -> int:
     parser.add_argument("--jobs", type=int, default=2)
     parser.add_argument("--skip-one-worker", action="store_true",
                         help="skip the single-worker full build (the slowest step)")
+    parser.add_argument("--workers-only", action="store_true",
+                        help="only the one-worker ÷ two-worker ratio (on a smaller job, say)")
     args = parser.parse_args()
     work = Path(tempfile.mkdtemp(prefix="acceptance-bench-"))
     job, site = work / "job", work / "site"
@@ -219,6 +221,13 @@ def main() -> int:
         generate(job, args.machines, args.visits)
         print(f"job: {args.machines} machines × {args.visits} visits, {args.jobs} workers")
         build = [*ACCEPTANCE, "build", str(job), "-o", str(site), "-q"]
+        if args.workers_only:
+            single, _ = timed([*build, "-j", "1"])
+            shutil.rmtree(site)
+            double, _ = timed([*build, "-j", "2"])
+            print(f"one worker ÷ two      {single:8.1f} s ÷ {double:.1f} s = "
+                  f"{single / double:.2f} (target ≥ 1.8)")
+            return 0
 
         full, peak = timed([*build, "-j", str(args.jobs)], memory=True)
         print(f"full build            {full:8.1f} s   peak memory {peak / 2**20:.0f} MB "
