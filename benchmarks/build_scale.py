@@ -124,7 +124,7 @@ def generate(root: Path, machines: int, visits: int) -> None:
 
 
 class PeakMemory:
-    """Peak of the summed resident memory of a process and all its descendants."""
+    """Peak of the summed memory (PSS) of a process and all its descendants."""
 
     def __init__(self, pid: int) -> None:
         self.pid, self.peak, self._stop = pid, 0, threading.Event()
@@ -150,13 +150,17 @@ class PeakMemory:
         return found
 
     def _rss(self, pid: int) -> int:
-        try:
-            with open(f"/proc/{pid}/status") as handle:
-                for line in handle:
-                    if line.startswith("VmRSS:"):
-                        return int(line.split()[1]) * 1024
-        except OSError:
-            pass
+        # Proportional set size: pages shared after fork (the forkserver's preloaded
+        # WeasyPrint) count once across the processes that share them, not once each.
+        for source, key in ((f"/proc/{pid}/smaps_rollup", "Pss:"), (f"/proc/{pid}/status",
+                                                                      "VmRSS:")):
+            try:
+                with open(source) as handle:
+                    for line in handle:
+                        if line.startswith(key):
+                            return int(line.split()[1]) * 1024
+            except OSError:
+                continue
         return 0
 
     def _run(self) -> None:
