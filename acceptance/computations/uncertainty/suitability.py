@@ -9,6 +9,7 @@ from datetime import date, datetime
 from enum import IntEnum, StrEnum
 
 from .._errors import ComputationError
+from ..waveform import AVERAGE_RESPONDING_SCALE
 from ._format import (
     _format_number,
     _format_significant,
@@ -240,11 +241,9 @@ def calibration_state(
 SINE_CREST_FACTOR = math.sqrt(2.0)
 """Peak ÷ rms of a sine wave (reference values §9) [S]."""
 
-SINE_FORM_FACTOR = math.pi / (2.0 * math.sqrt(2.0))
-"""Rms ÷ rectified mean of a sine wave, 1.1107 (reference values §9) [S]."""
-
-AVERAGE_RESPONDING_SCALE_FACTOR = SINE_FORM_FACTOR
-"""An average-responding, rms-calibrated meter shows this × mean(|x|) [S, reference values §9]."""
+# The meter's scale factor is the sine's form factor, 1.1107 (reference values §9) [S]; one
+# definition, in the waveform computations, serves both names.
+SINE_FORM_FACTOR = AVERAGE_RESPONDING_SCALE_FACTOR = AVERAGE_RESPONDING_SCALE
 
 
 @dataclass(frozen=True)
