@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import math
+import re
 import xml.etree.ElementTree as ElementTree
 from pathlib import Path
 
@@ -26,6 +27,8 @@ from acceptance.rendering.plots import (
 
 ROOT = Path(__file__).resolve().parents[1]
 SVG = "{http://www.w3.org/2000/svg}"
+
+REPO_ROOT = Path(__file__).resolve().parents[1]
 
 
 @pytest.fixture(scope="module")
@@ -141,3 +144,15 @@ def test_spectrum_without_the_fundamental_rescales_to_the_harmonics() -> None:
     plot = spectrum_plot([1, 2, 3], [100.0, 0.0, 33.0], include_fundamental=False)
     assert [bar.order for bar in plot.bars] == [2, 3]
     assert plot.y_ticks[-1].label == "35"
+
+
+@pytest.mark.parametrize("name", ["spectrum", "trend", "waveform"])
+def test_inline_plot_styles_stay_inside_their_plot(name):
+    # A <style> inside inline SVG applies to the whole HTML page (CSS has no SVG scope), so a
+    # bare ".value" rule once shrank every reading on a page that showed a spectrum.
+    text = (REPO_ROOT / "site_templates" / "plots" / f"{name}.svg.j2").read_text(encoding="utf-8")
+    sheet = text[text.index("<style>") + len("<style>"):text.index("</style>")]
+    selectors = [s.strip() for rule in re.findall(r"^([^\s/][^{]*)\{", sheet, re.M)
+                 for s in rule.split(",")]
+    assert selectors
+    assert all(s.startswith(f".plot-{name} ") for s in selectors), selectors
