@@ -58,8 +58,16 @@ def _parse_reading(item: ChecklistItem, checklist_id: str, element: str | None, 
     value_path = path
     if isinstance(raw, dict):
         allowed = {"value", "instrument", "note", "range", "capture", *item.also_record}
+        split = _decimal_comma_split(raw)
+        if split is not None:
+            # In {value: 28,6 Ω, …} the comma ends the value: YAML reads 28 and a key '6 Ω'.
+            problems.append(document.problem(
+                (*path, "value"), f"'{split}' uses a decimal comma, which splits the value "
+                f"inside {{…}}; write the decimal separator as a point, e.g. "
+                f"'{split.replace(',', '.', 1)}'"))
+        split_key = split.split(",", 1)[1] if split is not None else None
         for key in raw:
-            if key not in allowed:
+            if key not in allowed and key != split_key:
                 problems.append(document.problem(
                     (*path, key), f"unknown field '{key}'{_suggest(key, sorted(allowed))}"))
         if "value" not in raw:
@@ -108,6 +116,8 @@ def _parse_reading(item: ChecklistItem, checklist_id: str, element: str | None, 
                 extras[name] = parse_quantity(raw[name], unit_dimension(unit))
             except UnitError as error:
                 problems.append(document.problem((*path, name), str(error)))
+        if split is not None:
+            return None  # the other fields are checked; the value itself is reported above
     else:
         value_raw = raw
     line = document.where(value_path)[0]
@@ -281,3 +291,14 @@ def _parse_readings(visit: LoadedVisit, machine: LoadedMachine,
                     if reading:
                         parsed.append(reading)
             target[(checklist_id, item_id)] = parsed
+
+
+def _decimal_comma_split(raw: dict[str, Any]) -> str | None:
+    """The reading as written when a decimal comma split it into a number and a key."""
+    value = raw.get("value")
+    if isinstance(value, bool) or not isinstance(value, int):
+        return None
+    for key, rest in raw.items():
+        if isinstance(key, str) and key[:1].isdigit() and rest is None:
+            return f"{value},{key}"
+    return None
