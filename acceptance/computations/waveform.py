@@ -20,6 +20,7 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from ._errors import ComputationError
+from .sine import AVERAGE_RESPONDING_SCALE
 
 __all__ = [
     "AVERAGE_RESPONDING_SCALE",
@@ -36,8 +37,6 @@ __all__ = [
     "waveform_metrics",
 ]
 
-AVERAGE_RESPONDING_SCALE = math.pi / (2.0 * math.sqrt(2.0))
-"""π/(2√2) ≈ 1.1107: the form factor of a sine, by which a mean-sensing meter scales mean|x|."""
 
 IEC_WINDOW_DURATION = 0.2
 """Nominal duration of the IEC 61000-4-7 harmonic analysis window [s] (10 cycles at 50 Hz)."""

@@ -4,8 +4,6 @@ from __future__ import annotations
 
 import math
 
-import numpy as np
-
 from .._errors import ComputationError
 
 # --------------------------------------------------------------------------------------------
@@ -16,6 +14,8 @@ def _format_number(value: float) -> str:
     """Shortest positional text that reads back as the same float (no exponent)."""
     text = repr(float(value))
     if "e" in text or "n" in text:  # exponent form, inf or nan: let numpy write it out
+        import numpy as np  # here only: check's start-up does not pay for numpy
+
         return str(np.format_float_positional(float(value), trim="-"))
     return text[:-2] if text.endswith(".0") else text
 

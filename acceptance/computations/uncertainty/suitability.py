@@ -2,14 +2,13 @@
 
 from __future__ import annotations
 
-import math
 import re
 from dataclasses import dataclass
 from datetime import date, datetime
 from enum import IntEnum, StrEnum
 
 from .._errors import ComputationError
-from ..waveform import AVERAGE_RESPONDING_SCALE
+from ..sine import AVERAGE_RESPONDING_SCALE, SINE_CREST_FACTOR
 from ._format import (
     _format_number,
     _format_significant,
@@ -238,11 +237,8 @@ def calibration_state(
 # --------------------------------------------------------------------------------------------
 # Average-responding instruments on distorted waveforms
 
-SINE_CREST_FACTOR = math.sqrt(2.0)
-"""Peak ÷ rms of a sine wave (reference values §9) [S]."""
-
 # The meter's scale factor is the sine's form factor, 1.1107 (reference values §9) [S]; one
-# definition, in the waveform computations, serves both names.
+# definition, in computations.sine, serves both names.
 SINE_FORM_FACTOR = AVERAGE_RESPONDING_SCALE_FACTOR = AVERAGE_RESPONDING_SCALE
 
 
