@@ -1,10 +1,20 @@
-"""What ``check`` printed last time, reused while no input has changed.
+"""What ``check`` printed for each machine last time, reused while its inputs are unchanged.
 
-Evaluation is deterministic, so the same inputs give the same output: the cache
-keys the printed text on a digest of every file of the job folder, the built-in
-checklists and the tool version. It holds text only (no pickles), lives in the
-user's cache folder (never in the job folder, which may be a shared stick), and
-any change to any input makes it miss.
+Every check of a machine reads the job-level files (job file, register, checklists) and
+its own folder, nothing else (:func:`acceptance.loading.load_job`). Evaluation is
+deterministic, so a machine whose folder and job-level files are byte for byte the same
+prints the same section. The cache keeps, per output variant, the job-level head and each
+machine's printed section under a digest of
+
+- the job level: the tool version, the code, the built-in checklists and every file of
+  the job folder outside ``machines/``;
+- each machine: every file inside its folder.
+
+A change to the job level misses every machine; an edited visit misses its machine only,
+which ``check`` then loads and evaluates alone. The cache holds text and JSON only (no
+pickles), lives in the user's cache folder (never in the job folder, which may be a shared
+stick), and is written only after a clean evaluation, so a machine with input problems is
+always loaded and reported again.
 """
 
 from __future__ import annotations
@@ -12,12 +22,26 @@ from __future__ import annotations
 import hashlib
 import json
 import os
+from collections.abc import Callable
+from dataclasses import dataclass, field
 from pathlib import Path
+from typing import Any
 
 from . import __version__
 from .resources import checklists_dir
 
-__all__ = ["fingerprint", "load", "store"]
+__all__ = ["CheckCache", "Fingerprint", "fingerprint", "open_cache"]
+
+FORMAT = 2
+MACHINES_DIR = "machines"
+
+
+@dataclass(frozen=True)
+class Fingerprint:
+    """Digests of the job level and of each machine folder (by folder name)."""
+
+    job: str
+    machines: dict[str, str]
 
 
 def _cache_file(job: Path) -> Path:
@@ -26,51 +50,124 @@ def _cache_file(job: Path) -> Path:
     return base / "acceptance" / f"check-{name}.json"
 
 
-def fingerprint(job: Path) -> str | None:
-    """Digest of every input; None when the folder cannot be read (let check report it)."""
+def _digest_tree(digest: Any, root: str, skip: str | None = None,
+                 keep: Callable[[str], bool] | None = None) -> None:
+    """Feed every file under ``root`` (relative names and contents, in a stable order) to
+    ``digest``. ``skip`` names a top-level folder to leave out; hidden top-level folders
+    (.git, a staging site) are left out with it, since nothing reads them."""
+    for dirpath, dirnames, filenames in os.walk(root):
+        if skip is not None and dirpath == root:
+            dirnames[:] = [d for d in dirnames if d != skip and not d.startswith(".")]
+        dirnames.sort()
+        relative = os.path.relpath(dirpath, root)
+        for filename in sorted(filenames):
+            if keep is not None and not keep(filename):
+                continue
+            path = os.path.join(dirpath, filename)
+            with open(path, "rb") as handle:
+                content = handle.read()
+            digest.update(os.path.join(relative, filename).encode("utf-8", "surrogateescape")
+                          + b"\0" + hashlib.sha256(content).digest())
+
+
+def fingerprint(job: Path) -> Fingerprint | None:
+    """Digest the job's inputs; None when a file cannot be read (let ``check`` report it)."""
+    job = Path(job)
     digest = hashlib.sha256(f"acceptance {__version__}\n".encode())
     package = Path(__file__).resolve().parent
     try:
         # The code is an input too: an edited checkout must not print a stale result.
-        for root in (Path(job), checklists_dir(), package):
-            for dirpath, dirnames, filenames in os.walk(root):
-                dirnames[:] = sorted(d for d in dirnames if not d.startswith("."))
-                for filename in sorted(filenames):
-                    if filename.startswith(".") or (root == package
-                                                    and not filename.endswith(".py")):
-                        continue
-                    path = Path(dirpath) / filename
-                    digest.update(str(path.relative_to(root)).encode() + b"\0")
-                    digest.update(hashlib.sha256(path.read_bytes()).digest())
+        _digest_tree(digest, str(package), keep=lambda name: name.endswith(".py"))
+        digest.update(b"\1checklists\0")
+        _digest_tree(digest, str(checklists_dir()))
+        digest.update(b"\1job\0")
+        _digest_tree(digest, str(job), skip=MACHINES_DIR)
+        machines: dict[str, str] = {}
+        machines_root = job / MACHINES_DIR
+        if machines_root.is_dir():
+            # The folders load_job reads: every directory in machines/, by name.
+            folders = sorted(entry.name for entry in os.scandir(machines_root)
+                             if entry.is_dir())
+            for name in folders:
+                machine_digest = hashlib.sha256()
+                _digest_tree(machine_digest, os.path.join(machines_root, name))
+                machines[name] = machine_digest.hexdigest()
     except OSError:
         return None
-    return digest.hexdigest()
+    return Fingerprint(job=digest.hexdigest(), machines=machines)
 
 
-def load(job: Path, key: str, variant: str) -> tuple[int, str] | None:
-    try:
-        data = json.loads(_cache_file(job).read_text(encoding="utf-8"))
-    except (OSError, ValueError):
-        return None
-    if data.get("key") != key or variant not in data.get("outputs", {}):
-        return None
-    exit_code, text = data["outputs"][variant]
-    return int(exit_code), str(text)
+@dataclass
+class CheckCache:
+    """One output variant's cached head and machine sections for one job folder.
+
+    ``reusable`` holds the sections whose machine is unchanged; ``stale`` names the
+    machines to load and evaluate again.
+    """
+
+    job: Path
+    variant: str
+    current: Fingerprint
+    head: Any = None
+    reusable: dict[str, dict[str, Any]] = field(default_factory=dict)
+
+    @property
+    def stale(self) -> list[str]:
+        return [m for m in self.current.machines if m not in self.reusable]
+
+    @property
+    def complete(self) -> bool:
+        return self.head is not None and not self.stale
+
+    def sections(self, fresh: dict[str, dict[str, Any]]) -> list[dict[str, Any]]:
+        """Every machine's section in folder order: the fresh ones and the reused ones."""
+        merged = {**self.reusable, **fresh}
+        return [merged[m] for m in sorted(merged)]
+
+    def store(self, head: Any, fresh: dict[str, dict[str, Any]]) -> None:
+        """Keep the head and the fresh sections beside the reused ones (other variants too,
+        while the job level is unchanged)."""
+        target = _cache_file(self.job)
+        data = _read(target)
+        if data.get("job") != self.current.job:
+            data = {"format": FORMAT, "job": self.current.job, "variants": {}}
+        keys = self.current.machines
+        sections = {m: s for m, s in {**self.reusable, **fresh}.items() if m in keys}
+        for machine, section in sections.items():
+            section["key"] = keys[machine]
+        data["variants"][self.variant] = {"head": head, "machines": sections}
+        try:
+            target.parent.mkdir(parents=True, exist_ok=True)
+            temporary = target.with_name(f".{target.name}.{os.getpid()}")
+            temporary.write_text(json.dumps(data, ensure_ascii=False), encoding="utf-8")
+            os.replace(temporary, target)
+        except OSError:
+            pass  # a read-only home is no reason to fail a check
 
 
-def store(job: Path, key: str, variant: str, exit_code: int, text: str) -> None:
-    target = _cache_file(job)
+def _read(target: Path) -> dict[str, Any]:
     try:
         data = json.loads(target.read_text(encoding="utf-8"))
-        if data.get("key") != key:
-            data = {}
     except (OSError, ValueError):
-        data = {}
-    data = {"key": key, "outputs": {**data.get("outputs", {}), variant: [exit_code, text]}}
-    try:
-        target.parent.mkdir(parents=True, exist_ok=True)
-        temporary = target.with_name(f".{target.name}.{os.getpid()}")
-        temporary.write_text(json.dumps(data, ensure_ascii=False), encoding="utf-8")
-        os.replace(temporary, target)
-    except OSError:
-        pass  # a read-only home is no reason to fail a check
+        return {}
+    if not isinstance(data, dict) or data.get("format") != FORMAT:
+        return {}
+    return data
+
+
+def open_cache(job: Path, variant: str) -> CheckCache | None:
+    """The cache of ``variant`` for ``job`` as far as it still holds; None if the job's files
+    cannot be read."""
+    current = fingerprint(job)
+    if current is None:
+        return None
+    cache = CheckCache(job=job, variant=variant, current=current)
+    data = _read(_cache_file(job))
+    if data.get("job") != current.job:
+        return cache
+    stored = data.get("variants", {}).get(variant) or {}
+    cache.head = stored.get("head")
+    cache.reusable = {machine: section for machine, section in
+                      (stored.get("machines") or {}).items()
+                      if current.machines.get(machine) == section.get("key")}
+    return cache

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import argparse
 import importlib
+import os
 import sys
 from collections.abc import Sequence
 
@@ -41,6 +42,10 @@ def _parser() -> argparse.ArgumentParser:
 
 def main(argv: Sequence[str] | None = None) -> int:
     argv = list(sys.argv[1:] if argv is None else argv)
+    # The records are validated by our models alone: no installed pydantic plugin may watch or
+    # alter that, and skipping the plugin search (every installed package's entry points)
+    # shortens each command's start-up.
+    os.environ.setdefault("PYDANTIC_DISABLE_PLUGINS", "__all__")
     top = _parser()
     names = [name for name, _ in COMMANDS]
     if not argv or argv[0] not in names:

@@ -15,7 +15,7 @@ from typing import Any
 __all__ = [
     "RESULTS_SCHEMA", "Change", "ChangeClass", "CheckResult", "ElementResult", "ItemResult",
     "ChecklistResult", "MachineResult", "JobResult", "PartReplacement", "Step", "Verdict",
-    "VisitResult", "VisitState", "worst",
+    "VisitResult", "VisitState", "machine_to_json", "to_json", "worst",
 ]
 
 RESULTS_SCHEMA = "acceptance-results/1"
@@ -283,10 +283,16 @@ def _plain(value: Any) -> Any:
     return value
 
 
+def machine_to_json(machine: MachineResult) -> dict[str, Any]:
+    """One machine's entry of :func:`to_json`'s ``machines`` list."""
+    data = _plain(machine)
+    data["latest_state"] = data["visits"][-1]["state"] if data["visits"] else None
+    return data
+
+
 def to_json(result: JobResult) -> dict[str, Any]:
     """The machine-readable results (schema ``acceptance-results/1``, see README)."""
-    data = _plain(result)
-    for machine in data["machines"]:
-        latest = machine["visits"][-1]["state"] if machine["visits"] else None
-        machine["latest_state"] = latest
+    data = {name: (_plain(getattr(result, name)) if name != "machines"
+                   else [machine_to_json(m) for m in result.machines])
+            for name in result.__dataclass_fields__}
     return {"schema": RESULTS_SCHEMA, **data}

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import ast
 import json
 import socket
 import subprocess
@@ -87,18 +88,25 @@ def test_new_names_an_unknown_machine(make_job, capsys):
     assert "no machine 'm2' in this job (machines: m1)" in capsys.readouterr().err
 
 
-def test_check_does_not_import_the_pdf_stack(make_job):
-    # Start-up: check must stay light (WeasyPrint, Jinja2 and the capture importer are for
-    # the build and the capture command only).
-    root = make_job()
+def _modules_after_check(root: Path, *names: str) -> list[str]:
+    """Run check on ``root`` in a new interpreter; which of ``names`` it imported."""
     code = (f"import sys; sys.argv = ['acceptance', 'check', {str(root)!r}]\n"
             "from acceptance.cli import main\n"
             "main()\n"
-            "heavy = [m for m in ('weasyprint', 'pydyf', 'jinja2', 'markdown_it') "
-            "if m in sys.modules]\n"
-            "print('HEAVY', heavy)")
+            f"print('LOADED', [m for m in {names!r} if m in sys.modules])")
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True)
-    assert "HEAVY []" in out.stdout, out.stdout + out.stderr
+    assert "LOADED" in out.stdout, out.stdout + out.stderr
+    return ast.literal_eval(out.stdout.split("LOADED", 1)[1].strip())
+
+
+def test_check_does_not_import_the_pdf_stack(make_job):
+    # Start-up: check must stay light (WeasyPrint, Jinja2 and the capture importer are for
+    # the build and the capture command only; numpy for jobs with captures).
+    root = make_job()
+    heavy = ("weasyprint", "pydyf", "jinja2", "markdown_it", "numpy", "acceptance.captures")
+    assert _modules_after_check(root, *heavy) == []
+    # Nothing changed since: the output is reprinted without the model or the evaluation.
+    assert _modules_after_check(root, "pydantic", "acceptance.evaluation", "yaml") == []
 
 
 def _free_port() -> int:
@@ -171,6 +179,110 @@ def test_check_reprints_its_output_until_an_input_changes(make_job, capsys):
     changed = main(["check", str(root)]), capsys.readouterr()
     assert changed[1].out != first[1].out
     assert "55.0 Hz" in changed[1].out  # the new reading, now failing, is listed
+
+
+def _copy_machine(root: Path, source: str, target: str, replace: tuple[str, str] = ("", "")
+                  ) -> None:
+    import shutil
+
+    shutil.copytree(root / "machines" / source, root / "machines" / target)
+    visit = root / "machines" / target / "visits" / "v1.yaml"
+    visit.write_text(visit.read_text(encoding="utf-8").replace(*replace), encoding="utf-8")
+
+
+def _check_twice(root: Path, options: list[str], capsys, monkeypatch
+                 ) -> tuple[tuple[int, str, str], tuple[int, str, str]]:
+    """check with its cache, then with none: (code, out, err) of each."""
+    cached = main(["check", str(root), *options]), *capsys.readouterr()
+    monkeypatch.setenv("ACCEPTANCE_NO_CACHE", "1")
+    fresh = main(["check", str(root), *options]), *capsys.readouterr()
+    monkeypatch.delenv("ACCEPTANCE_NO_CACHE")
+    return cached, fresh
+
+
+@pytest.mark.parametrize("options", [[], ["--all"], ["--json"]])
+def test_check_evaluates_only_the_machines_whose_files_changed(make_job, capsys, monkeypatch,
+                                                                options):
+    import acceptance.loading
+
+    root = make_job(visit={"readings": {"supply": {"frequency": "50.0 Hz"}}})
+    _copy_machine(root, "m1", "m2", ("50.0 Hz", "50.2 Hz"))
+    _copy_machine(root, "m1", "m3", ("50.0 Hz", "49.9 Hz"))
+    loaded: list[object] = []
+    real_load_job = acceptance.loading.load_job
+
+    def recording_load_job(*args, **kwargs):
+        loaded.append(kwargs.get("machines"))
+        return real_load_job(*args, **kwargs)
+
+    monkeypatch.setattr(acceptance.loading, "load_job", recording_load_job)
+    cached, fresh = _check_twice(root, options, capsys, monkeypatch)
+    assert cached == fresh and loaded == [["m1", "m2", "m3"], None]
+
+    # One visit edited: only its machine is loaded, and the output is the whole job's.
+    loaded.clear()
+    visit = root / "machines" / "m2" / "visits" / "v1.yaml"
+    visit.write_text(visit.read_text(encoding="utf-8").replace("50.2 Hz", "57.0 Hz"),
+                     encoding="utf-8")
+    cached, fresh = _check_twice(root, options, capsys, monkeypatch)
+    assert loaded == [["m2"], None]
+    assert cached == fresh and "57.0" in cached[1] and cached[0] == 1
+
+    # Nothing changed: nothing is loaded at all.
+    loaded.clear()
+    again = main(["check", str(root), *options]), *capsys.readouterr()
+    assert again == cached and loaded == []
+
+    # A job-level file changed: every machine is evaluated again.
+    job_file = root / "job.yaml"
+    job_file.write_text(job_file.read_text(encoding="utf-8") + "\n# a comment\n",
+                        encoding="utf-8")
+    loaded.clear()
+    cached, fresh = _check_twice(root, options, capsys, monkeypatch)
+    assert cached == fresh and loaded == [["m1", "m2", "m3"], None]
+
+    # A machine added and one removed: the sections follow the folders.
+    import shutil
+
+    _copy_machine(root, "m1", "m0")
+    shutil.rmtree(root / "machines" / "m3")
+    loaded.clear()
+    cached, fresh = _check_twice(root, options, capsys, monkeypatch)
+    assert cached == fresh and loaded == [["m0"], None]
+    assert "m3" not in cached[1] and "m0" in cached[1]
+
+
+def test_check_reports_an_edited_machine_problem_and_recovers(make_job, capsys):
+    root = make_job(visit={"readings": {"supply": {"frequency": "50.0 Hz"}}})
+    _copy_machine(root, "m1", "m2")
+    first = main(["check", str(root)]), capsys.readouterr().out
+    visit = root / "machines" / "m2" / "visits" / "v1.yaml"
+    visit.write_text(visit.read_text(encoding="utf-8").replace("50.0 Hz", "50,0 Hz"),
+                     encoding="utf-8")
+    assert main(["check", str(root)]) == 2
+    err = capsys.readouterr().err
+    assert "machines/m2/visits/v1.yaml" in err and "uses a comma" in err
+    visit.write_text(visit.read_text(encoding="utf-8").replace("50,0 Hz", "50.0 Hz"),
+                     encoding="utf-8")
+    assert (main(["check", str(root)]), capsys.readouterr().out) == first
+
+
+def test_check_keeps_the_sign_off_states_of_unchanged_machines(tmp_path, capsys, monkeypatch):
+    import shutil
+
+    root = tmp_path / "demo"
+    shutil.copytree(REPO / "demo_job", root)
+    first = main(["check", str(root)]), capsys.readouterr().out
+    assert "press-brake-1/2026-03-10-commissioning: signed, unchanged since sign-off" in first[1]
+    visit = next((root / "machines" / "compressor-1" / "visits").glob("*periodic.yaml"))
+    visit.write_text(visit.read_text(encoding="utf-8") + "\n# edited\n", encoding="utf-8")
+    cached, fresh = _check_twice(root, [], capsys, monkeypatch)
+    assert cached == fresh and cached[:2] == first
+    signed = root / "machines" / "press-brake-1" / "visits" / "2026-03-10-commissioning.yaml"
+    signed.write_text(signed.read_text(encoding="utf-8").replace(
+        "L3-L1: {value: 0.3 V", "L3-L1: {value: 0.4 V"), encoding="utf-8")
+    cached, fresh = _check_twice(root, [], capsys, monkeypatch)
+    assert cached == fresh and "ALTERED AFTER SIGN-OFF" in cached[1].upper()
 
 
 def test_check_cache_is_not_consulted_on_input_errors(make_job, capsys):

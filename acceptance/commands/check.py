@@ -1,21 +1,25 @@
 """``acceptance check JOB``: evaluate and print a summary; exit 0 only when every visit passes.
 
-While no input has changed, the output of the last check is printed again without loading
-anything (see :mod:`acceptance.check_cache`); the heavy modules are imported only on a miss.
+Each machine's section of the output is kept while its inputs are unchanged (see
+:mod:`acceptance.check_cache`): after an edit only the machines whose files changed are
+loaded and evaluated again, and while nothing changed the model and the evaluation are not
+even imported.
 """
 
 from __future__ import annotations
 
 import argparse
+import dataclasses
 import io
 import json
 import os
 import sys
 from pathlib import Path
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 if TYPE_CHECKING:
-    from ..results import JobResult
+    from ..loading import Job, LoadedMachine
+    from ..results import JobResult, MachineResult
 
 
 def _marks() -> tuple[dict, dict]:
@@ -39,56 +43,67 @@ def register(parser: argparse.ArgumentParser) -> None:
                         help="list every item, not only those that need attention")
 
 
-def summary_lines(result: JobResult, show_all: bool = False) -> list[str]:
-    from ..results import Verdict, VisitState
+def machine_lines(machine: MachineResult, show_all: bool = False) -> list[str]:
+    """One machine's section of the summary: its visits and what needs attention."""
+    from ..results import Verdict
 
     _MARK, _STATE_MARK = _marks()  # noqa: N806 - tables, read like constants
+    lines = ["", f"{machine.name} [{machine.id}]"]
+    if not machine.visits:
+        lines.append("  no visits recorded")
+    for visit in machine.visits:
+        lines.append(f"  {_STATE_MARK[visit.state]} {visit.id} ({visit.kind}, "
+                     f"{visit.date.isoformat()}): {visit.state.value.upper()}"
+                     + (f" as left (as found: {visit.as_found_state.value})"
+                        if visit.as_found_state is not None else ""))
+        left = {item.key: item for item in visit.as_left}
+        for found in visit.items:
+            item = left.get(found.key, found)
+            label = "as left: " if found.key in left else ""
+            if not show_all and not item.verdict.is_open:
+                continue
+            for element in item.elements or ():
+                if not show_all and (not element.verdict.is_open or (
+                        not item.required and element.verdict is Verdict.NOT_TESTED)):
+                    continue
+                where = f"{label}{item.key}" + (f"[{element.element}]" if element.element
+                                                 else "")
+                reading = element.reading or "—"
+                lines.append(f"      {_MARK[element.verdict]} {element.verdict.value:<16} "
+                             f"{where}: {reading}")
+                for check in element.checks:
+                    if check.verdict.is_open or show_all:
+                        detail = f"{_MARK[check.verdict]} {check.limit}"
+                        if check.compared:
+                            detail = f"{_MARK[check.verdict]} {check.compared}: {check.limit}"
+                        if check.message:
+                            detail += f" — {check.message}"
+                        lines.append(f"          {detail}  ({check.source})")
+                for finding in element.findings:
+                    lines.append(f"          ⚠ {finding}")
+                if element.line:
+                    lines.append(f"          at {visit.source_file}:{element.line}")
+            if not item.elements and show_all:
+                lines.append(f"      {_MARK[item.verdict]} {item.verdict.value:<16} "
+                             f"{item.key}")
+    return lines
+
+
+def totals_line(states: list[str]) -> str:
+    """The last line of the summary: how many visits are in each state."""
+    from ..results import VisitState
+
+    counts = {state: states.count(state.value) for state in VisitState}
+    return f"{len(states)} visits: " + ", ".join(
+        f"{count} {state.value}" for state, count in counts.items() if count)
+
+
+def summary_lines(result: JobResult, show_all: bool = False) -> list[str]:
+    """The whole summary as lines, the totals last."""
     lines = [f"{result.title} — {result.site}"]
     for machine in result.machines:
-        lines.append("")
-        lines.append(f"{machine.name} [{machine.id}]")
-        if not machine.visits:
-            lines.append("  no visits recorded")
-        for visit in machine.visits:
-            lines.append(f"  {_STATE_MARK[visit.state]} {visit.id} ({visit.kind}, "
-                         f"{visit.date.isoformat()}): {visit.state.value.upper()}"
-                         + (f" as left (as found: {visit.as_found_state.value})"
-                            if visit.as_found_state is not None else ""))
-            left = {item.key: item for item in visit.as_left}
-            for found in visit.items:
-                item = left.get(found.key, found)
-                label = "as left: " if found.key in left else ""
-                if not show_all and not item.verdict.is_open:
-                    continue
-                for element in item.elements or ():
-                    if not show_all and (not element.verdict.is_open or (
-                            not item.required and element.verdict is Verdict.NOT_TESTED)):
-                        continue
-                    where = f"{label}{item.key}" + (f"[{element.element}]" if element.element
-                                                     else "")
-                    reading = element.reading or "—"
-                    lines.append(f"      {_MARK[element.verdict]} {element.verdict.value:<16} "
-                                 f"{where}: {reading}")
-                    for check in element.checks:
-                        if check.verdict.is_open or show_all:
-                            detail = f"{_MARK[check.verdict]} {check.limit}"
-                            if check.compared:
-                                detail = f"{_MARK[check.verdict]} {check.compared}: {check.limit}"
-                            if check.message:
-                                detail += f" — {check.message}"
-                            lines.append(f"          {detail}  ({check.source})")
-                    for finding in element.findings:
-                        lines.append(f"          ⚠ {finding}")
-                    if element.line:
-                        lines.append(f"          at {visit.source_file}:{element.line}")
-                if not item.elements and show_all:
-                    lines.append(f"      {_MARK[item.verdict]} {item.verdict.value:<16} "
-                                 f"{item.key}")
-    visits = result.visits
-    states = {state: sum(1 for v in visits if v.state is state) for state in VisitState}
-    lines.append("")
-    lines.append(f"{len(visits)} visits: " + ", ".join(
-        f"{count} {state.value}" for state, count in states.items() if count))
+        lines += machine_lines(machine, show_all)
+    lines += ["", totals_line([visit.state.value for visit in result.visits])]
     return lines
 
 
@@ -96,53 +111,77 @@ def run(args: argparse.Namespace) -> int:
     from .. import check_cache
 
     variant = "json" if args.json else ("all" if args.all else "summary")
-    use_cache = not os.environ.get("ACCEPTANCE_NO_CACHE")
-    key = check_cache.fingerprint(args.job) if use_cache else None
-    cached = check_cache.load(args.job, key, variant) if key else None
-    if cached is not None:
-        code, text = cached
-        out, _, err = text.partition("\0")
-        sys.stdout.write(out)
-        sys.stderr.write(err)
-        return code
-    out, err = io.StringIO(), io.StringIO()
-    code = _evaluate_and_print(args, out, err)
-    sys.stdout.write(out.getvalue())
-    sys.stderr.write(err.getvalue())
-    if key:
-        check_cache.store(args.job, key, variant, code, out.getvalue() + "\0" + err.getvalue())
-    return code
+    cache = (check_cache.open_cache(args.job, variant)
+             if not os.environ.get("ACCEPTANCE_NO_CACHE") else None)
+    if cache is not None and cache.complete:
+        # Nothing changed: print again without importing the model or the evaluation.
+        head, sections = cache.head, cache.sections({})
+    else:
+        head, fresh = _evaluate(args.job, variant, cache.stale if cache else None)
+        sections = cache.sections(fresh) if cache else [fresh[m] for m in fresh]
+        if cache is not None:
+            cache.store(head, fresh)
+    return _print(variant, head, sections)
 
 
-def _evaluate_and_print(args: argparse.Namespace, out: io.StringIO, err: io.StringIO) -> int:
+def _evaluate(root: Path, variant: str, machines: list[str] | None
+              ) -> tuple[Any, dict[str, dict[str, Any]]]:
+    """Load and evaluate ``machines`` (all when None): the variant's head and a section per
+    machine, each with its printed text, its visits' states and its sign-off report."""
     from ..evaluation import evaluate_job
     from ..loading import load_job
-    from ..results import VisitState, to_json
+    from ..results import machine_to_json, to_json
 
-    job = load_job(args.job)
+    job = load_job(root, machines=machines)  # raises InputError: nothing is cached then
     result = evaluate_job(job)
-    if args.json:
-        json.dump(to_json(result), out, ensure_ascii=False, indent=2)
-        out.write("\n")
-        altered = _report_signatures(job, err)
+    loaded = {machine.id: machine for machine in job.machines}
+    if variant == "json":
+        head: Any = to_json(dataclasses.replace(result, machines=()))
     else:
-        lines = summary_lines(result, args.all)
-        print("\n".join(lines[:-1]), file=out)
-        altered = _report_signatures(job, out)
-        print(lines[-1], file=out)  # the totals stay the last line
-    return 0 if all(v.state is VisitState.PASS for v in result.visits) and not altered else 1
+        head = f"{result.title} — {result.site}"
+    sections = {}
+    for machine in result.machines:
+        signatures = io.StringIO()
+        altered = _report_signatures(job, loaded[machine.id], signatures)
+        section: dict[str, Any] = {
+            "states": [visit.state.value for visit in machine.visits],
+            "signatures": signatures.getvalue(), "altered": altered}
+        if variant == "json":
+            section["json"] = machine_to_json(machine)
+        else:
+            section["text"] = "\n".join(machine_lines(machine, variant == "all"))
+        sections[machine.id] = section
+    return head, sections
 
 
-def _report_signatures(job: object, stream: io.StringIO) -> int:
+def _print(variant: str, head: Any, sections: list[dict[str, Any]]) -> int:
+    states = [state for section in sections for state in section["states"]]
+    signatures = "".join(section["signatures"] for section in sections)
+    if variant == "json":
+        document = dict(head)
+        document["machines"] = [section["json"] for section in sections]
+        sys.stdout.write(json.dumps(document, ensure_ascii=False, indent=2) + "\n")
+        sys.stderr.write(signatures)
+    else:
+        body = "\n".join([head, *(section["text"] for section in sections), ""])
+        # The sign-off states come after every machine, and the totals stay the last line.
+        sys.stdout.write(f"{body}\n{signatures}{totals_line(states)}\n")
+    passed = all(state == "pass" for state in states)
+    return 0 if passed and not any(section["altered"] for section in sections) else 1
+
+
+def _report_signatures(job: Job, machine: LoadedMachine, stream: io.StringIO) -> int:
     """Print each signed visit's sign-off state; return how many were altered after it."""
-    from ..integrity import signature_statuses
+    from ..integrity import check_visit_signatures
 
     altered = 0
-    for key, status in signature_statuses(job).items():  # type: ignore[arg-type]
+    for visit in machine.visits:
+        status = check_visit_signatures(job, machine, visit)
         if status.state == "unsigned":
             continue
         who = ", ".join(f"{c.name} ({c.role})" for c in status.checks)
-        print(f"{key}: {status.phrase.upper() if status.state != 'signed' else status.phrase}"
+        print(f"{machine.id}/{visit.id}: "
+              f"{status.phrase.upper() if status.state != 'signed' else status.phrase}"
               f" — {who}", file=stream)
         for reason in status.reasons:
             print(f"    {reason}", file=stream)

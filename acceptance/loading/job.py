@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from collections.abc import Collection
 from pathlib import Path
 
 from ..errors import InputError, Problem
@@ -41,11 +42,15 @@ from .validation import _display, _load_document, _validate
 # ------------------------------------------------------------------ the job
 
 
-def load_job(root: Path, include_visits: bool = True) -> Job:
+def load_job(root: Path, include_visits: bool = True,
+             machines: Collection[str] | None = None) -> Job:
     """Load and validate the job folder at ``root``; raise :class:`InputError` with all problems.
 
     ``include_visits=False`` loads the job, instruments, checklists and machines only (to
-    scaffold a new visit while other visits are still being filled in).
+    scaffold a new visit while other visits are still being filled in). ``machines`` names
+    the machine folders to load (all when None): every check of a machine reads only the
+    job-level files and its own folder, so the others may be left out when their results
+    are already known (``check`` re-evaluates only the machines whose files changed).
     """
     root = Path(root)
     problems: list[Problem] = []
@@ -97,7 +102,7 @@ def load_job(root: Path, include_visits: bool = True) -> Job:
                 instruments.setdefault(entry["id"], _UNVALIDATED)
 
     checklists = _load_checklists(root, problems)
-    machines = _load_machines(root, checklists, instruments, problems, include_visits)
+    loaded = _load_machines(root, checklists, instruments, problems, include_visits, machines)
 
     if job_model is not None and job_document is not None:
         _check_overrides(job_model, job_document, checklists, problems)
@@ -106,7 +111,7 @@ def load_job(root: Path, include_visits: bool = True) -> Job:
         raise InputError(problems)
     return Job(root=root, document=job_document, model=job_model, instruments=instruments,
                instruments_document=instruments_document, checklists=checklists,
-               machines=machines)
+               machines=loaded)
 
 
 def _check_accuracy(instrument: Instrument, index: int, document: Document,
@@ -170,7 +175,8 @@ def _check_overrides(job: JobFile, document: Document, checklists: dict[str, Loa
 
 def _load_machines(root: Path, checklists: dict[str, LoadedChecklist],
                    instruments: dict[str, Instrument], problems: list[Problem],
-                   include_visits: bool = True) -> list[LoadedMachine]:
+                   include_visits: bool = True,
+                   only: Collection[str] | None = None) -> list[LoadedMachine]:
     machines_root = root / MACHINES_DIR
     if not machines_root.is_dir():
         problems.append(Problem(_display(machines_root, root), 1, 1, "",
@@ -182,6 +188,8 @@ def _load_machines(root: Path, checklists: dict[str, LoadedChecklist],
                                 f"{len(folders)} machines; the limit is {MAX_MACHINES}: "
                                 "split the site into several job folders"))
         return []
+    if only is not None:
+        folders = [folder for folder in folders if folder.name in only]
     machines: list[LoadedMachine] = []
     for folder in folders:
         machine_path = folder / "machine.yaml"
