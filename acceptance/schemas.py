@@ -7,6 +7,7 @@ from typing import Any
 
 from pydantic import BaseModel
 
+from .integrity import SignatureFile
 from .model import Checklist, InstrumentRegister, JobFile, MachineFile, VisitFile
 
 __all__ = ["FILE_KINDS", "schema_documents", "schema_text"]
@@ -17,6 +18,8 @@ FILE_KINDS: dict[str, tuple[type[BaseModel], str]] = {
     "machine": (MachineFile, "machines/<id>/machine.yaml"),
     "visit": (VisitFile, "machines/<id>/visits/<visit>.yaml"),
     "checklist": (Checklist, "checklists/<id>.yaml"),
+    # Written by ``acceptance sign``, never by hand; the schema lets other tools read them.
+    "signature": (SignatureFile, "machines/<id>/signatures/<visit>.yaml"),
 }
 
 
