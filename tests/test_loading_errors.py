@@ -232,3 +232,15 @@ def test_no_job_file(tmp_path):
         f"{tmp_path / 'empty' / 'job.yaml'}:1:1: not found; a job folder starts with job.yaml "
         "(see README)"
     ]
+
+
+def test_a_job_checklist_replaces_the_built_in_one_of_its_id(make_job):
+    # A local version of a built-in checklist is the documented way to adopt local rules
+    # (README, Checklists); the record names where each checklist came from.
+    from acceptance.resources import checklists_dir
+
+    local = (checklists_dir() / "supply.yaml").read_text(encoding="utf-8")
+    local = local.replace("\ntitle: ", "\ntitle: Local supply checks — was ", 1)
+    job = load_job(make_job(checklists={"supply.yaml": local}))
+    assert job.checklists["supply"].origin == "job/checklists/supply.yaml"
+    assert job.checklists["supply"].model.title.startswith("Local supply checks")

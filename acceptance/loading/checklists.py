@@ -55,6 +55,14 @@ def _load_checklists(root: Path, problems: list[Problem]) -> dict[str, LoadedChe
                     problems.append(
                         document.problem(("items", index, "also_record", name), str(error)))
         _check_rules(model, document, problems)
+        earlier = result.get(model.checklist)
+        if earlier is not None and earlier.origin != "built-in":
+            # A job checklist may replace a built-in one of the same id (a local version);
+            # two of the job's own with one id would leave it to file order which one counts.
+            problems.append(document.problem(
+                ("checklist",), f"checklist id '{model.checklist}' is already used by "
+                                f"{earlier.origin}; give each checklist its own id"))
+            continue
         result[model.checklist] = LoadedChecklist(model, document, origin)
     for loaded in result.values():
         _check_compare_specs(loaded, result, problems)
