@@ -58,7 +58,7 @@ def _capture_job(make_job, rows: int):
 
 
 def test_capture_above_the_byte_limit(make_job, monkeypatch):
-    monkeypatch.setattr(captures, "MAX_CAPTURE_BYTES", 100)
+    monkeypatch.setattr(captures.reading, "MAX_CAPTURE_BYTES", 100)
     root = _capture_job(make_job, 20)
     size = (root / "machines/m1/captures/c.csv").stat().st_size
     assert problems_of(root) == [
@@ -67,7 +67,7 @@ def test_capture_above_the_byte_limit(make_job, monkeypatch):
 
 
 def test_capture_above_the_row_limit(make_job, monkeypatch):
-    monkeypatch.setattr(captures, "MAX_CAPTURE_ROWS", 10)
+    monkeypatch.setattr(captures.reading, "MAX_CAPTURE_ROWS", 10)
     assert problems_of(_capture_job(make_job, 11)) == [
         "job/machines/m1/captures/c.csv:1:1: the capture has 11 data rows; the limit is 10: "
         "export a shorter span or a lower sample rate"]
