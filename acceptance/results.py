@@ -147,6 +147,7 @@ class ItemResult:
 class ChecklistResult:
     id: str
     title: str
+    purpose: str | None  # what the checklist proves, in one sentence
     version: int
     origin: str
     caution: str | None

@@ -93,7 +93,7 @@ DOCUMENTED = {
     "machine": {"id", "name", "kind", "area", "nameplate", "latest_state", "visits"},
     "visit": {"id", "machine", "kind", "date", "performed_by", "state", "counts", "conditions",
               "notes", "attachments", "sign_off", "source_file", "checklists"},
-    "checklist": {"id", "title", "version", "origin", "caution", "verdict", "items"},
+    "checklist": {"id", "title", "purpose", "version", "origin", "caution", "verdict", "items"},
     "item": {"checklist", "id", "title", "unit", "safety_critical", "required", "verdict",
              "guidance", "caution", "elements"},
     "element": {"element", "verdict", "reading", "value", "unit", "basis", "instrument",

@@ -238,7 +238,8 @@ def _evaluate_readings(visit: LoadedVisit, job: Job, machine: LoadedMachine) -> 
         items = tuple(_evaluate_item(item, loaded, job, machine, visit)
                       for item in loaded.model.items)
         checklists.append(ChecklistResult(
-            id=loaded.id, title=loaded.model.title, version=loaded.model.version,
+            id=loaded.id, title=loaded.model.title, purpose=loaded.model.purpose,
+            version=loaded.model.version,
             origin=loaded.origin, caution=loaded.model.caution,
             verdict=worst([i.verdict for i in items]), items=items))
     all_items = [item for c in checklists for item in c.items]
