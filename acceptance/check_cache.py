@@ -3,8 +3,8 @@
 Every check of a machine reads the job-level files (job file, register, checklists) and
 its own folder, nothing else (:func:`acceptance.loading.load_job`). Evaluation is
 deterministic, so a machine whose folder and job-level files are byte for byte the same
-prints the same section. The cache keeps, per output variant, the job-level head and each
-machine's printed section under a digest of
+prints the same section. The cache keeps, in one file per output variant, the job-level
+head and each machine's printed section under a digest of
 
 - the job level: the tool version, the code, the built-in checklists and every file of
   the job folder outside ``machines/``;
@@ -44,10 +44,12 @@ class Fingerprint:
     machines: dict[str, str]
 
 
-def _cache_file(job: Path) -> Path:
+def _cache_file(job: Path, variant: str) -> Path:
+    # One file per variant: the --json sections are large, and reading them must not slow
+    # the summary an installer reruns after every edit.
     base = Path(os.environ.get("XDG_CACHE_HOME") or Path.home() / ".cache")
     name = hashlib.sha256(str(job.resolve()).encode()).hexdigest()[:32]
-    return base / "acceptance" / f"check-{name}.json"
+    return base / "acceptance" / f"check-{name}-{variant}.json"
 
 
 def _digest_tree(digest: Any, root: str, skip: str | None = None,
@@ -125,17 +127,13 @@ class CheckCache:
         return [merged[m] for m in sorted(merged)]
 
     def store(self, head: Any, fresh: dict[str, dict[str, Any]]) -> None:
-        """Keep the head and the fresh sections beside the reused ones (other variants too,
-        while the job level is unchanged)."""
-        target = _cache_file(self.job)
-        data = _read(target)
-        if data.get("job") != self.current.job:
-            data = {"format": FORMAT, "job": self.current.job, "variants": {}}
+        """Keep the head and the fresh sections beside the reused ones."""
         keys = self.current.machines
         sections = {m: s for m, s in {**self.reusable, **fresh}.items() if m in keys}
         for machine, section in sections.items():
             section["key"] = keys[machine]
-        data["variants"][self.variant] = {"head": head, "machines": sections}
+        data = {"format": FORMAT, "job": self.current.job, "head": head, "machines": sections}
+        target = _cache_file(self.job, self.variant)
         try:
             target.parent.mkdir(parents=True, exist_ok=True)
             temporary = target.with_name(f".{target.name}.{os.getpid()}")
@@ -162,12 +160,11 @@ def open_cache(job: Path, variant: str) -> CheckCache | None:
     if current is None:
         return None
     cache = CheckCache(job=job, variant=variant, current=current)
-    data = _read(_cache_file(job))
+    data = _read(_cache_file(job, variant))
     if data.get("job") != current.job:
         return cache
-    stored = data.get("variants", {}).get(variant) or {}
-    cache.head = stored.get("head")
+    cache.head = data.get("head")
     cache.reusable = {machine: section for machine, section in
-                      (stored.get("machines") or {}).items()
+                      (data.get("machines") or {}).items()
                       if current.machines.get(machine) == section.get("key")}
     return cache

@@ -14,12 +14,18 @@ import io
 import json
 import os
 import sys
+import textwrap
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 if TYPE_CHECKING:
     from ..loading import Job, LoadedMachine
     from ..results import JobResult, MachineResult
+
+
+# json.dumps(indent=2) puts the top-level keys two spaces in and the items of their lists four.
+_JSON_KEY_INDENT = "  "
+_JSON_ITEM_INDENT = "    "
 
 
 def _marks() -> tuple[dict, dict]:
@@ -147,7 +153,11 @@ def _evaluate(root: Path, variant: str, machines: list[str] | None
             "states": [visit.state.value for visit in machine.visits],
             "signatures": signatures.getvalue(), "altered": altered}
         if variant == "json":
-            section["json"] = machine_to_json(machine)
+            # Kept as text, indented as it stands in the whole document: reprinting a large
+            # job's JSON then costs no parsing and no encoding.
+            section["json"] = textwrap.indent(
+                json.dumps(machine_to_json(machine), ensure_ascii=False, indent=2),
+                _JSON_ITEM_INDENT)
         else:
             section["text"] = "\n".join(machine_lines(machine, variant == "all"))
         sections[machine.id] = section
@@ -158,9 +168,13 @@ def _print(variant: str, head: Any, sections: list[dict[str, Any]]) -> int:
     states = [state for section in sections for state in section["states"]]
     signatures = "".join(section["signatures"] for section in sections)
     if variant == "json":
-        document = dict(head)
-        document["machines"] = [section["json"] for section in sections]
-        sys.stdout.write(json.dumps(document, ensure_ascii=False, indent=2) + "\n")
+        # The head was encoded with an empty machine list; the machines' texts go in its
+        # place. Inside strings JSON escapes every quote, so the key matches only itself.
+        items = ",\n".join(section["json"] for section in sections)
+        machines = f"[\n{items}\n{_JSON_KEY_INDENT}]" if sections else "[]"
+        document = json.dumps(head, ensure_ascii=False, indent=2).replace(
+            f'\n{_JSON_KEY_INDENT}"machines": []', f'\n{_JSON_KEY_INDENT}"machines": {machines}', 1)
+        sys.stdout.write(document + "\n")
         sys.stderr.write(signatures)
     else:
         body = "\n".join([head, *(section["text"] for section in sections), ""])
