@@ -119,9 +119,8 @@ def render_package(env: Any, result: JobResult, staging: Path, signatures: Mappi
     ``env`` is the site's Jinja2 environment (with the review globals); the deficiencies and
     instruments pages must already be in ``staging``.
     """
-    from pypdf import PdfWriter
-
     from .pdf import render_document, write_archival
+    from .pdfjoin import join_pdfs
 
     work = staging / _WORK
     work.mkdir()
@@ -159,12 +158,7 @@ def render_package(env: Any, result: JobResult, staging: Path, signatures: Mappi
             front_pages = laid_out
         else:  # pragma: no cover - the contents would have to grow with every pass
             raise RuntimeError("the package contents did not settle on a page count")
-        writer = PdfWriter(clone_from=front_pdf)
-        for part in parts:
-            writer.append(part.pdf, outline_item=part.title)
-        target = staging / PACKAGE_NAME
-        with open(target, "wb") as handle:
-            writer.write(handle)
+        join_pdfs(staging / PACKAGE_NAME, front_pdf, [(part.title, part.pdf) for part in parts])
         return front_pages + sum(counts)
     finally:
         shutil.rmtree(work, ignore_errors=True)
