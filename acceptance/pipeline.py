@@ -465,6 +465,18 @@ def _file_digest(path: Path) -> str | None:
         return None
 
 
+def _release_memory() -> None:
+    """Give freed memory back to the system: CPython's allocator and glibc keep it otherwise,
+    and the build's peak is summed over this process and its PDF workers."""
+    import gc
+
+    gc.collect()
+    libc_name = ctypes.util.find_library("c")
+    trim = getattr(ctypes.CDLL(libc_name), "malloc_trim", None) if libc_name else None
+    if trim is not None:
+        trim(0)
+
+
 def _link_or_copy(source: Path, target: Path) -> None:
     target.parent.mkdir(parents=True, exist_ok=True)
     try:
@@ -516,6 +528,10 @@ def build_site(job_root: Path, output: Path, with_pdf: bool = True,
                 target = staging / name
                 target.parent.mkdir(parents=True, exist_ok=True)
                 target.write_bytes(data)
+            # The pages are read back from staging from here on; a large job's HTML is tens
+            # of megabytes that would otherwise stay with this process through every PDF.
+            files.clear()
+            _release_memory()
             for task in reusable:
                 _link_or_copy(output / task.pdf, staging / task.pdf)
             fresh = [t for t in tasks if t not in reusable]
