@@ -12,6 +12,7 @@ import ctypes
 import ctypes.util
 import fcntl
 import hashlib
+import io
 import json
 import os
 import shutil
@@ -269,10 +270,20 @@ def _site_files(job: Job, result: JobResult, pages: list[SitePage]) -> dict[str,
                 source = (machine.folder / attachment.path).resolve()
                 files[f"machines/{machine.id}/attachments/{attachment.path}"] = \
                     source.read_bytes()
-    files["results.json"] = (json.dumps(to_json(result), ensure_ascii=False, indent=2)
-                             + "\n").encode()
+    files["results.json"] = _results_json(result)
     files.update(_review_files(result, signatures))
     return files
+
+
+def _results_json(result: JobResult) -> bytes:
+    """``results.json``, encoded as it is serialised: ``json.dumps`` with an indent joins a
+    list of every token first, over 300 MB for a 46 MB file of 600 visits."""
+    buffer = io.BytesIO()
+    with io.TextIOWrapper(buffer, encoding="utf-8", newline="\n", write_through=True) as text:
+        json.dump(to_json(result), text, ensure_ascii=False, indent=2)
+        text.write("\n")
+        text.flush()
+        return buffer.getvalue()
 
 
 def _signature_states(job: Job) -> dict[str, object]:
