@@ -138,3 +138,29 @@ def test_the_package_has_contents_an_outline_and_every_visit(two_builds):
     following = start + records["v1"]
     assert "v2" in reader.pages[following - 1].extract_text()
     assert list(reader.attachments) == ["results.json"]
+
+
+def test_the_package_keeps_the_archival_catalog_and_each_part_links_within_itself(two_builds):
+    _, site, _ = two_builds
+    reader = PdfReader(site / "package.pdf")
+    assert reader.pdf_header == "%PDF-1.7"
+    assert reader.xmp_metadata is not None and "/OutputIntents" in reader.trailer["/Root"]
+    assert reader.metadata.title.startswith("Site package: Test job")
+    numbers = {page.indirect_reference.idnum: index for index, page in enumerate(reader.pages)}
+    starts = sorted(reader.get_destination_page_number(entry) for entry in reader.outline
+                    if not isinstance(entry, list))
+
+    def part(page: int) -> int:
+        return max(start for start in starts if start <= page)
+
+    links = 0
+    for index, page in enumerate(reader.pages):
+        for annotation in page.get("/Annots", []):
+            target = annotation.get_object().get("/Dest")
+            if target is None:
+                continue
+            # Every record names its sections alike: a name would lead to the first record's.
+            assert not isinstance(target, str), target
+            assert part(numbers[target[0].idnum]) == part(index)
+            links += 1
+    assert links

@@ -4,8 +4,8 @@ The package (``package.pdf``) is a cover and a contents list followed by every v
 the deficiencies and the instrument register. WeasyPrint keeps a whole laid-out document in
 memory (about 2.4 MB a page), so the package is never laid out as one document: each part is
 rendered on its own (the visit records are the PDFs the build has already written), and the
-parts are joined with pypdf, which holds only the finished PDF objects. The contents are
-therefore numbered from the page counts of the rendered parts rather than with
+parts are joined by :mod:`.pdfjoin`, which writes each part out before it reads the next. The
+contents are therefore numbered from the page counts of the rendered parts rather than with
 ``target-counter()``, which cannot see across separately rendered documents; the cover and
 contents are laid out again if their own length changes those numbers. Each part keeps its
 outline, nested under one entry per part.
@@ -28,7 +28,7 @@ if TYPE_CHECKING:
     from ..results import JobResult, VisitResult
 
 __all__ = ["PACKAGE_NAME", "PackagePart", "build_moment", "visit_sources", "visit_pdf_info",
-           "package_parts", "render_package"]
+           "package_parts", "render_package", "lay_out_part"]
 
 PACKAGE_NAME = "package.pdf"
 _WORK = ".package-work"
@@ -111,17 +111,34 @@ def _page_count(path: Path) -> int:
     return len(PdfReader(path).pages)
 
 
+def lay_out_part(html: Path, target: Path, site: Path, info: PdfInfo,
+                 sources: Sequence[tuple[str, Path, str]] = (), pages: int | None = None) -> int:
+    """Lay out one part of the package and, unless it does not come to ``pages`` pages, write
+    it to ``target`` as PDF/A-3b with ``sources`` (name, file, description) embedded; return
+    the page count. Reads its files itself, so it can run in a process of its own."""
+    from .pdf import render_document, write_archival
+
+    document = render_document(html, [site])
+    count = len(document.pages)
+    if pages is None or count == pages:
+        embedded = [PdfSource(name, path.read_bytes(), description)
+                    for name, path, description in sources]
+        write_archival(document, target, embedded, info, site_root=site, links_from=site)
+    return count
+
+
 def render_package(env: Any, result: JobResult, staging: Path, signatures: Mapping[str, Any],
-                   sources: Sequence[PdfSource], info: PdfInfo,
-                   progress: Callable[[str], None] | None = None) -> int:
+                   sources: Sequence[tuple[str, Path, str]], info: PdfInfo,
+                   progress: Callable[[str], None] | None = None,
+                   lay_out: Callable[..., int] = lay_out_part) -> int:
     """Write ``package.pdf`` into ``staging``; return its page count.
 
     ``env`` is the site's Jinja2 environment (with the review globals); the deficiencies and
-    instruments pages must already be in ``staging``.
+    instruments pages must already be in ``staging``. Each laid-out part goes through
+    ``lay_out`` (called as :func:`lay_out_part`), which the build runs in a process that exits
+    afterwards: WeasyPrint does not give back what a long register held.
     """
-    from pypdf import PdfWriter
-
-    from .pdf import render_document, write_archival
+    from .pdfjoin import join_pdfs
 
     work = staging / _WORK
     work.mkdir()
@@ -132,9 +149,7 @@ def render_package(env: Any, result: JobResult, staging: Path, signatures: Mappi
             target = work / page.replace(".html", ".pdf")
             if progress:
                 progress(f"{PACKAGE_NAME}: {title.lower()}")
-            document = render_document(staging / page, [staging])
-            write_archival(document, target, (), info, site_root=staging, links_from=staging)
-            del document
+            lay_out(staging / page, target, staging, info)
             extra.append((title, target))
         parts = package_parts(result, staging, extra, signatures)
         counts = [_page_count(part.pdf) for part in parts]
@@ -150,21 +165,15 @@ def render_package(env: Any, result: JobResult, staging: Path, signatures: Mappi
                                    total_pages=page - 1, built=info.modified)
             front_html = work / "front.html"
             front_html.write_text(html, encoding="utf-8")
-            document = render_document(front_html, [staging])
-            laid_out = len(document.pages)
+            laid_out = lay_out(front_html, front_pdf, staging, info, sources, front_pages)
             if laid_out == front_pages:
-                write_archival(document, front_pdf, sources, info, site_root=staging,
-                               links_from=staging)
                 break
             front_pages = laid_out
         else:  # pragma: no cover - the contents would have to grow with every pass
             raise RuntimeError("the package contents did not settle on a page count")
-        writer = PdfWriter(clone_from=front_pdf)
-        for part in parts:
-            writer.append(part.pdf, outline_item=part.title)
-        target = staging / PACKAGE_NAME
-        with open(target, "wb") as handle:
-            writer.write(handle)
+        if progress:
+            progress(f"{PACKAGE_NAME}: joining {len(parts)} parts")
+        join_pdfs(staging / PACKAGE_NAME, front_pdf, [(part.title, part.pdf) for part in parts])
         return front_pages + sum(counts)
     finally:
         shutil.rmtree(work, ignore_errors=True)
