@@ -41,6 +41,7 @@ if TYPE_CHECKING:  # loading imports this module lazily; only types are needed h
 
 __all__ = [
     "SIGNATURE_SCHEMA", "SIGNED_INPUTS_SCHEMA", "SIGNATURES_DIR", "MANIFEST_SIGNATURE_NAME",
+    "manifest_signature",
     "IntegrityError", "KeyPair", "SignatureEntry", "SignatureFile", "SignatureCheck",
     "SignatureStatus", "SignedInput", "SiteReport", "canonical_json", "fingerprint",
     "generate_key", "load_private_key", "load_public_key", "signature_path", "signed_at_now",
@@ -531,14 +532,19 @@ def signature_statuses(job: Job) -> dict[str, SignatureStatus]:
 # ------------------------------------------------------------------ built sites
 
 
+def manifest_signature(manifest: bytes, key: KeyPair) -> str:
+    """The text of ``MANIFEST.sha256.sig`` for a manifest's bytes. Ed25519 signatures are
+    deterministic (RFC 8032 clause 5.1.6), so the same manifest and key give the same text."""
+    return (f"algorithm: ed25519\n"
+            f"public_key: {base64.b64encode(key.public_raw).decode('ascii')}\n"
+            f"fingerprint: {key.fingerprint}\n"
+            f"signature: {_sign(key, manifest)}\n")
+
+
 def sign_manifest(manifest: Path, key: KeyPair) -> Path:
     """Write ``MANIFEST.sha256.sig`` beside ``manifest``: an Ed25519 signature of its bytes."""
     target = manifest.with_name(MANIFEST_SIGNATURE_NAME)
-    text = (f"algorithm: ed25519\n"
-            f"public_key: {base64.b64encode(key.public_raw).decode('ascii')}\n"
-            f"fingerprint: {key.fingerprint}\n"
-            f"signature: {_sign(key, manifest.read_bytes())}\n")
-    target.write_text(text, encoding="utf-8")
+    target.write_text(manifest_signature(manifest.read_bytes(), key), encoding="utf-8")
     return target
 
 

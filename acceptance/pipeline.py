@@ -408,6 +408,24 @@ def _sign_manifest(staging: Path, key: Path | None) -> None:
         sign_manifest(staging / MANIFEST_NAME, load_private_key(key))
 
 
+def _sign_unchanged_manifest(output: Path, key: Path) -> None:
+    """Sign the manifest of a site that needs no rebuild, as a build with ``--key`` promises.
+
+    The signature file is not listed in the manifest, so it may change alone; it is written
+    only when its text differs (another key, or none yet), so a signed site rebuilt with the
+    same key still writes nothing.
+    """
+    from .integrity import MANIFEST_SIGNATURE_NAME, load_private_key, manifest_signature
+
+    text = manifest_signature((output / MANIFEST_NAME).read_bytes(), load_private_key(key))
+    target = output / MANIFEST_SIGNATURE_NAME
+    if target.is_file() and target.read_text(encoding="utf-8") == text:
+        return
+    temporary = target.with_name(f".{target.name}.{os.getpid()}")
+    temporary.write_text(text, encoding="utf-8")
+    os.replace(temporary, target)
+
+
 def _pdf_tasks(pages: list[SitePage], files: dict[str, bytes]) -> list[PdfTask]:
     shared = hashlib.sha256(f"acceptance {__version__}\n".encode())
     for name in sorted(files):
@@ -541,6 +559,8 @@ def build_site(job_root: Path, output: Path, with_pdf: bool = True,
             report.unchanged = True
             report.pdfs = len(tasks)
             report.files = sorted(expected)
+            if key is not None:
+                _sign_unchanged_manifest(output, key)
             return report
         staging = output.with_name(f".{output.name}.staging-{os.getpid()}")
         if staging.exists():
