@@ -19,8 +19,9 @@ esac
 system_packages=(libpango-1.0-0 libpangoft2-1.0-0 libharfbuzz0b libharfbuzz-subset0 fonts-dejavu-core)
 if [ "$mode" = test ]; then
   # chromium: the browser tests drive Debian's /usr/bin/chromium through Playwright (from the
-  # test extra); Playwright's own browser download is never used.
-  system_packages+=(poppler-utils chromium)
+  # test extra); Playwright's own browser download is never used. qpdf checks the structure
+  # of the PDFs we join ourselves, as an independent reader.
+  system_packages+=(poppler-utils chromium qpdf)
   export PLAYWRIGHT_SKIP_BROWSER_DOWNLOAD=1
 fi
 

@@ -4,6 +4,7 @@ byte-identical rebuilds, and the site package with its contents and every visit.
 from __future__ import annotations
 
 import re
+import subprocess
 from pathlib import Path
 
 import pytest
@@ -164,3 +165,15 @@ def test_the_package_keeps_the_archival_catalog_and_each_part_links_within_itsel
             assert part(numbers[target[0].idnum]) == part(index)
             links += 1
     assert links
+
+
+def test_the_package_and_the_records_pass_an_independent_pdf_check(two_builds):
+    # The package is joined by our own writer (rendering/pdfjoin.py): qpdf, an independent
+    # PDF library, checks its cross-reference table, object streams and page tree. Exit 0 is
+    # clean; 3 would mean warnings, 2 errors (qpdf manual, "Exit Status").
+    _, site, _ = two_builds
+    for name in ("package.pdf", "machines/m1/v1.pdf"):
+        checked = subprocess.run(["qpdf", "--check", str(site / name)], capture_output=True,
+                                 text=True)
+        assert checked.returncode == 0, (name, checked.stdout, checked.stderr)
+        assert "No syntax or stream encoding errors found" in checked.stdout
