@@ -261,6 +261,8 @@ def _finish(output: _Output, kids: list[int], entries: dict[str, bytes],
     if first is not None:
         output.write_object(_OUTLINES, b"<</Type /Outlines\n/First %s\n/Last %s\n/Count %d>>"
                             % (first, last, top_count))
+    else:  # no outline at all: the number reserved for it still needs an entry in the table
+        output.write_object(_OUTLINES, b"null")
     catalog = [b"/Type /Catalog", b"/Pages %d 0 R" % _PAGES]
     if first is not None:
         catalog.append(b"/Outlines %d 0 R" % _OUTLINES)
