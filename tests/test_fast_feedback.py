@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import ast
 import json
+import shutil
 import socket
 import subprocess
 import sys
@@ -183,8 +184,6 @@ def test_check_reprints_its_output_until_an_input_changes(make_job, capsys):
 
 def _copy_machine(root: Path, source: str, target: str, replace: tuple[str, str] = ("", "")
                   ) -> None:
-    import shutil
-
     shutil.copytree(root / "machines" / source, root / "machines" / target)
     visit = root / "machines" / target / "visits" / "v1.yaml"
     visit.write_text(visit.read_text(encoding="utf-8").replace(*replace), encoding="utf-8")
@@ -242,8 +241,6 @@ def test_check_evaluates_only_the_machines_whose_files_changed(make_job, capsys,
     assert cached == fresh and loaded == [["m1", "m2", "m3"], None]
 
     # A machine added and one removed: the sections follow the folders.
-    import shutil
-
     _copy_machine(root, "m1", "m0")
     shutil.rmtree(root / "machines" / "m3")
     loaded.clear()
@@ -268,8 +265,6 @@ def test_check_reports_an_edited_machine_problem_and_recovers(make_job, capsys):
 
 
 def test_check_keeps_the_sign_off_states_of_unchanged_machines(tmp_path, capsys, monkeypatch):
-    import shutil
-
     root = tmp_path / "demo"
     shutil.copytree(REPO / "demo_job", root)
     first = main(["check", str(root)]), capsys.readouterr().out

@@ -20,7 +20,7 @@ from typing import TYPE_CHECKING, Any
 
 if TYPE_CHECKING:
     from ..loading import Job, LoadedMachine
-    from ..results import JobResult, MachineResult
+    from ..results import MachineResult
 
 
 # json.dumps(indent=2) puts the top-level keys two spaces in and the items of their lists four.
@@ -104,15 +104,6 @@ def totals_line(states: list[str]) -> str:
         f"{count} {state.value}" for state, count in counts.items() if count)
 
 
-def summary_lines(result: JobResult, show_all: bool = False) -> list[str]:
-    """The whole summary as lines, the totals last."""
-    lines = [f"{result.title} — {result.site}"]
-    for machine in result.machines:
-        lines += machine_lines(machine, show_all)
-    lines += ["", totals_line([visit.state.value for visit in result.visits])]
-    return lines
-
-
 def run(args: argparse.Namespace) -> int:
     from .. import check_cache
 
@@ -165,6 +156,8 @@ def _evaluate(root: Path, variant: str, machines: list[str] | None
 
 
 def _print(variant: str, head: Any, sections: list[dict[str, Any]]) -> int:
+    from ..results import VisitState
+
     states = [state for section in sections for state in section["states"]]
     signatures = "".join(section["signatures"] for section in sections)
     if variant == "json":
@@ -180,7 +173,7 @@ def _print(variant: str, head: Any, sections: list[dict[str, Any]]) -> int:
         body = "\n".join([head, *(section["text"] for section in sections), ""])
         # The sign-off states come after every machine, and the totals stay the last line.
         sys.stdout.write(f"{body}\n{signatures}{totals_line(states)}\n")
-    passed = all(state == "pass" for state in states)
+    passed = all(state == VisitState.PASS.value for state in states)
     return 0 if passed and not any(section["altered"] for section in sections) else 1
 
 

@@ -21,7 +21,7 @@ import gc
 import hashlib
 import io
 from collections import deque
-from collections.abc import Callable, Sequence
+from collections.abc import Sequence
 from pathlib import Path
 from typing import Any, BinaryIO
 
@@ -173,8 +173,7 @@ def _pages_nodes(reader: PdfReader) -> list[int]:
     return found
 
 
-def join_pdfs(target: Path, front: Path, parts: Sequence[tuple[str, Path]],
-              progress: Callable[[str], None] | None = None) -> int:
+def join_pdfs(target: Path, front: Path, parts: Sequence[tuple[str, Path]]) -> int:
     """Write ``front`` followed by every ``(title, path)`` of ``parts`` to ``target``;
     return the page count."""
     with open(target, "wb") as handle:
@@ -203,8 +202,6 @@ def join_pdfs(target: Path, front: Path, parts: Sequence[tuple[str, Path]],
         copier.drain()
         del copier, reader
         for index, (title, path) in enumerate(parts):
-            if progress:
-                progress(f"joining {index + 1}/{len(parts)}: {title}")
             reader = PdfReader(path)
             outline_number, outline = _outline_root(reader)
             fixed = {n: _PAGES for n in _pages_nodes(reader)}
