@@ -49,3 +49,34 @@ def test_parts_follow_the_front_in_order_each_under_one_outline_entry(tmp_path):
     assert [reader.get_destination_page_number(entry) for entry in top] == [0, 1, 3]
     nested = reader.outline[reader.outline.index(top[1]) + 1]
     assert [entry.title for entry in nested if not isinstance(entry, list)] == ["Alpha"]
+
+
+def test_files_given_to_the_join_are_embedded_as_sources(tmp_path):
+    import datetime as dt
+
+    from acceptance.rendering.pdf import PdfSource
+
+    front = _pdf(tmp_path / "front.pdf", "<h1>Cover</h1>")
+    part = _pdf(tmp_path / "a.pdf", "<p>Alpha</p>")
+    data = '{"schema": "ünïcode ok", "values": [1, 2, 3]}\n'.encode()
+    target = tmp_path / "out.pdf"
+    join_pdfs(target, front, [("Part A", part)],
+              [PdfSource("results.json", data, "the computed results")],
+              dt.datetime(2026, 3, 12, tzinfo=dt.UTC))
+    assert _qpdf_clean(target)
+    reader = PdfReader(target)
+    assert reader.attachments == {"results.json": [data]}
+    catalog = reader.trailer["/Root"]
+    # ISO 19005-3 6.8 / ISO 32000-2 7.11.3: each embedded file is named in the catalog's /AF
+    # with its relationship; the embedded stream carries its size and MD5 check sum.
+    (spec,) = [entry.get_object() for entry in catalog["/AF"]]
+    assert spec["/AFRelationship"] == "/Source" and spec["/UF"] == "results.json"
+    params = spec["/EF"]["/F"].get_object()["/Params"]
+    assert params["/Size"] == len(data) and params["/ModDate"] == "D:20260312000000Z"
+    # qpdf, an independent reader, lists the file and gives back the same bytes.
+    listed = subprocess.run(["qpdf", "--list-attachments", str(target)],
+                            capture_output=True, text=True, check=True).stdout
+    assert "results.json" in listed
+    shown = subprocess.run(["qpdf", "--show-attachment=results.json", str(target)],
+                           capture_output=True, check=True).stdout
+    assert shown == data

@@ -8,7 +8,9 @@ stays in memory is one offset per object, the page list, the outline entries and
 named destinations.
 
 The first document (the package's cover and contents) gives the catalog: its metadata,
-output intent, embedded files and outline stay as they are. Each further part gets one
+output intent, embedded files and outline stay as they are. Files given to the join are
+embedded as well (ISO 32000-1 7.11.4, with the PDF 2.0 / PDF/A-3 ``/AFRelationship``), so
+the front need not be laid out again when only an embedded file changed. Each further part gets one
 outline entry that opens on its first page, with the part's own outline nested under it.
 A link or outline entry of a part that names a destination of that same part is written
 with the destination itself, since several parts name their sections alike; the joined
@@ -17,9 +19,12 @@ name tree keeps the first document's names and the first part's of any other nam
 
 from __future__ import annotations
 
+import datetime as _dt
 import gc
 import hashlib
 import io
+import mimetypes
+import zlib
 from collections import deque
 from collections.abc import Sequence
 from pathlib import Path
@@ -153,6 +158,46 @@ def _named_destinations(reader: PdfReader) -> dict[str, Any]:
     return names
 
 
+def _name_tree_leaves(tree: Any) -> list[tuple[str, Any]]:
+    """(name, value) pairs of a name tree (ISO 32000-1 7.9.6), values unresolved."""
+    leaves: list[tuple[str, Any]] = []
+    stack = [tree.get_object()] if tree is not None else []
+    while stack:
+        node = stack.pop()
+        flat = node.get("/Names", [])
+        leaves += [(str(flat[index]), flat[index + 1]) for index in range(0, len(flat) - 1, 2)]
+        stack.extend(kid.get_object() for kid in node.get("/Kids", []))
+    return leaves
+
+
+def _text(value: str) -> bytes:
+    buffer = io.BytesIO()
+    TextStringObject(value).write_to_stream(buffer)
+    return buffer.getvalue()
+
+
+def _embed(output: _Output, attachment: Any, moment: _dt.datetime) -> int:
+    """Write one embedded file and its file specification; return the specification's
+    number. ``attachment`` has ``name``, ``data`` and ``description``."""
+    data = attachment.data
+    mime = mimetypes.guess_type(attachment.name)[0] or "application/octet-stream"
+    when = _text(moment.astimezone(_dt.UTC).strftime("D:%Y%m%d%H%M%SZ"))
+    packed = zlib.compress(data, 9)
+    stream = output.allocate()
+    output.write_object(stream, b"<</Type /EmbeddedFile\n/Subtype /%s\n/Params <</CheckSum <%s>"
+                        b" /Size %d /CreationDate %s /ModDate %s>>\n/Filter /FlateDecode"
+                        b"\n/Length %d>>\nstream\n%s\nendstream" % (
+                            mime.replace("/", "#2F").encode(),
+                            hashlib.md5(data, usedforsecurity=False).hexdigest().encode(),
+                            len(data), when, when, len(packed), packed))
+    spec = output.allocate()
+    name = _text(attachment.name)
+    output.write_object(spec, b"<</Type /Filespec\n/F %s\n/UF %s\n/EF <</F %d 0 R /UF %d 0 R>>"
+                        b"\n/Desc %s\n/AFRelationship /Source>>" % (
+                            name, name, stream, stream, _text(attachment.description)))
+    return spec
+
+
 def _outline_root(reader: PdfReader) -> tuple[int | None, DictionaryObject | None]:
     reference = reader.trailer["/Root"].raw_get("/Outlines") \
         if "/Outlines" in reader.trailer["/Root"] else None
@@ -173,9 +218,11 @@ def _pages_nodes(reader: PdfReader) -> list[int]:
     return found
 
 
-def join_pdfs(target: Path, front: Path, parts: Sequence[tuple[str, Path]]) -> int:
-    """Write ``front`` followed by every ``(title, path)`` of ``parts`` to ``target``;
-    return the page count."""
+def join_pdfs(target: Path, front: Path, parts: Sequence[tuple[str, Path]],
+              attachments: Sequence[Any] = (), moment: _dt.datetime | None = None) -> int:
+    """Write ``front`` followed by every ``(title, path)`` of ``parts`` to ``target``, with
+    ``attachments`` (each with ``name``, ``data`` and ``description``) embedded as sources
+    dated ``moment``; return the page count."""
     with open(target, "wb") as handle:
         output = _Output(handle)
         part_items = [output.allocate() for _ in parts]
@@ -189,10 +236,13 @@ def join_pdfs(target: Path, front: Path, parts: Sequence[tuple[str, Path]]) -> i
         kids = copier.pages()
         catalog = reader.trailer["/Root"]
         entries = {name: copier.dump(value) for name, value in catalog.items()
-                   if name not in ("/Type", "/Pages", "/Outlines", "/Names")}
+                   if name not in ("/Type", "/Pages", "/Outlines", "/Names", "/AF")}
         front_names = catalog.get("/Names", {})
         name_entries = {name: copier.dump(value) for name, value in front_names.items()
-                        if name != "/Dests"}
+                        if name not in ("/Dests", "/EmbeddedFiles")}
+        associated = [copier.dump(value) for value in catalog.get("/AF", [])]
+        files = {name: copier.dump(value) for name, value
+                 in _name_tree_leaves(front_names.get("/EmbeddedFiles"))}
         destinations = {name: copier.dump(value) for name, value in copier.names.items()}
         info = copier.dump(reader.trailer["/Info"]) if "/Info" in reader.trailer else None
         permanent = reader.trailer["/ID"][0] if "/ID" in reader.trailer else None
@@ -201,6 +251,18 @@ def join_pdfs(target: Path, front: Path, parts: Sequence[tuple[str, Path]]) -> i
         top_count = _visible(outline) if outline is not None else 0
         copier.drain()
         del copier, reader
+        for attachment in attachments:
+            spec = b"%d 0 R" % _embed(output, attachment, moment or _dt.datetime(
+                1970, 1, 1, tzinfo=_dt.UTC))
+            associated.append(spec)
+            files[attachment.name] = spec
+        if associated:
+            entries["/AF"] = b"[" + b" ".join(associated) + b"]"
+        if files:
+            number = output.allocate()
+            output.write_object(number, b"<</Names [%s]>>" % b"\n".join(
+                _text(name) + b" " + files[name] for name in sorted(files)))
+            name_entries["/EmbeddedFiles"] = b"%d 0 R" % number
         for index, (title, path) in enumerate(parts):
             reader = PdfReader(path)
             outline_number, outline = _outline_root(reader)
