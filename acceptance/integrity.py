@@ -619,9 +619,10 @@ def verify_site(site: Path, trusted: Iterable[bytes] | None = None,
     skip = {"MANIFEST.sha256", MANIFEST_SIGNATURE_NAME, *ignored}
     for path in sorted(site.rglob("*")):
         name = path.relative_to(site).as_posix()
-        # The build's own bookkeeping (.acceptance-site, .acceptance-build.json) is not
-        # part of the site and stays out of the manifest.
-        if path.name.startswith(".acceptance-") and path.parent == site:
+        # The build's own bookkeeping (.acceptance-site, .acceptance-build.json and the
+        # package's kept parts in .acceptance-package/) is not part of the site and stays
+        # out of the manifest.
+        if name.split("/", 1)[0].startswith(".acceptance-"):
             continue
         if path.is_file() and name not in listed and name not in skip:
             report.problems.append(f"{name}: not in the manifest (added after the build)")

@@ -155,8 +155,11 @@ def _capture_plots(env: object, visit: VisitResult) -> dict[str, dict[str, objec
 
 
 def _write_manifest(staging: Path) -> list[str]:
+    """List every file of the site with its SHA-256, but the build's own bookkeeping: the
+    marker, the build state and the package's kept parts (all named ``.acceptance-*``)."""
     files = sorted(p.relative_to(staging).as_posix() for p in staging.rglob("*")
-                   if p.is_file() and p.name not in (MANIFEST_NAME, _MARKER, _BUILD_STATE))
+                   if p.is_file() and p.name != MANIFEST_NAME
+                   and not p.relative_to(staging).parts[0].startswith(".acceptance-"))
     lines = []
     for name in files:
         digest = hashlib.sha256((staging / name).read_bytes()).hexdigest()
@@ -241,6 +244,7 @@ class PdfTask:
     sources: tuple[Path, ...] = ()  # input files the PDF depends on (e.g. embedded ones)
     attachments: tuple[object, ...] = ()  # rendering.pdf.PdfSource: files embedded (PDF/A-3)
     info: object = None  # rendering.pdf.PdfInfo: identifier, dates, keywords
+    part: bool = False  # a part of package.pdf: its links are relative to the site root
 
 
 _BUILD_STATE = ".acceptance-build.json"
@@ -323,7 +327,13 @@ def _archival_tasks(job: Job, result: JobResult, pages: list[SitePage],
     """
     import dataclasses
 
-    from .rendering.package import PACKAGE_NAME, visit_pdf_info, visit_sources
+    from .rendering.package import (
+        BACK_PARTS,
+        PACKAGE_NAME,
+        back_part_pdf,
+        visit_pdf_info,
+        visit_sources,
+    )
 
     visits = {f"machines/{m.id}/{v.id}.pdf": (m, v) for m in job.machines for v in m.visits}
     results = {f"machines/{v.machine}/{v.id}.pdf": v for v in result.visits}
@@ -342,11 +352,19 @@ def _archival_tasks(job: Job, result: JobResult, pages: list[SitePage],
             task = dataclasses.replace(task, attachments=sources, info=info,
                                        key=key.hexdigest())
         tasks.append(task)
-    package = hashlib.sha256(b"package\0" + "".join(t.key for t in tasks).encode())
-    for name in ("deficiencies.html", "instruments.html", "results.json"):
-        package.update(name.encode() + b"\0" + hashlib.sha256(files[name]).digest())
-    package.update(repr(_package_info(job, result)).encode())
-    return [*tasks, PdfTask(PACKAGE_NAME, PACKAGE_NAME, package.hexdigest())]
+    info = _package_info(job, result)
+    shared = _shared_key(files)
+    parts = []
+    for _title, page in BACK_PARTS:
+        key = shared.copy()
+        key.update(page.encode() + b"\0" + files[page] + repr(info).encode())
+        parts.append(PdfTask(page, back_part_pdf(page), key.hexdigest(), info=info, part=True))
+    package = hashlib.sha256(b"package\0" + "".join(t.key for t in [*tasks, *parts]).encode())
+    package.update(b"results.json\0" + hashlib.sha256(files["results.json"]).digest())
+    package.update(repr(info).encode())
+    # The back parts go first: they are the longest documents, and a long one started last
+    # would leave the other workers idle at the end.
+    return [*parts, *tasks, PdfTask(PACKAGE_NAME, PACKAGE_NAME, package.hexdigest())]
 
 
 def _package_info(job: Job, result: JobResult):  # noqa: ANN202
@@ -364,25 +382,33 @@ def _package_info(job: Job, result: JobResult):  # noqa: ANN202
                            "the instruments", authors=[result.contractor])
 
 
-def _records(tasks: list[PdfTask]) -> list[PdfTask]:
+def _documents(tasks: list[PdfTask], package: bool) -> list[PdfTask]:
+    """The package's task when ``package``, else every other one (records, back parts)."""
     from .rendering.package import PACKAGE_NAME
 
-    return [t for t in tasks if t.pdf != PACKAGE_NAME]
+    return [t for t in tasks if (t.pdf == PACKAGE_NAME) is package]
 
 
 def _render_package(job: Job, result: JobResult, tasks: list[PdfTask], staging: Path,
-                    progress: Callable[[str], None] | None, jobs: int = 1) -> int:
-    """Write package.pdf when its task is among ``tasks``; every record must be in place."""
-    from .rendering.package import PACKAGE_NAME, lay_out_part, render_package
+                    counts: dict[str, int], front_prefix: bytes, kept_front: object,
+                    progress: Callable[[str], None] | None, jobs: int = 1
+                    ) -> tuple[int, object]:
+    """Write package.pdf when its task is among ``tasks``, every other PDF being in place
+    with its page count in ``counts``; return its page count and its front part (or
+    ``kept_front`` when the package was not written)."""
+    from .rendering.package import lay_out_part, render_package
+    from .rendering.pdf import PdfSource
 
-    if not any(t.pdf == PACKAGE_NAME for t in tasks):
-        return 0
+    if not _documents(tasks, package=True):
+        return 0, kept_front
     signatures = _signature_states(job)
-    sources = [("results.json", staging / "results.json",
-                "the computed results (schema " + RESULTS_SCHEMA + ")")]
+    results = PdfSource("results.json", (staging / "results.json").read_bytes(),
+                        "the computed results (schema " + RESULTS_SCHEMA + ")")
+    info = _package_info(job, result)
     lay_out = partial(_in_worker, lay_out_part) if jobs > 1 else lay_out_part
     return render_package(_review_environment(result, signatures), result, staging,
-                          signatures, sources, _package_info(job, result), progress, lay_out)
+                          signatures, [results], info, counts, front_prefix,
+                          kept_front, progress, lay_out)  # type: ignore[arg-type]
 
 
 def _in_worker(function: Callable[..., int], *arguments: object) -> int:
@@ -426,11 +452,20 @@ def _sign_unchanged_manifest(output: Path, key: Path) -> None:
     os.replace(temporary, target)
 
 
-def _pdf_tasks(pages: list[SitePage], files: dict[str, bytes]) -> list[PdfTask]:
+def _shared_key(files: dict[str, bytes]):  # noqa: ANN202 - hashlib object
+    """What every PDF is made from besides its page: the tool version and the assets but
+    the scripts, which WeasyPrint does not run. (The index's filter data is a script that
+    changes with any verdict; were it in the key, one new deficiency would render every
+    record again.)"""
     shared = hashlib.sha256(f"acceptance {__version__}\n".encode())
     for name in sorted(files):
-        if name.startswith("assets/"):
+        if name.startswith("assets/") and not name.endswith(".js"):
             shared.update(name.encode() + b"\0" + hashlib.sha256(files[name]).digest())
+    return shared
+
+
+def _pdf_tasks(pages: list[SitePage], files: dict[str, bytes]) -> list[PdfTask]:
+    shared = _shared_key(files)
     tasks = []
     for page in pages:
         if page.pdf is None:
@@ -441,30 +476,95 @@ def _pdf_tasks(pages: list[SitePage], files: dict[str, bytes]) -> list[PdfTask]:
     return tasks
 
 
-def _previous_state(output: Path) -> tuple[dict[str, str], dict[str, str]]:
-    """(file → sha256 from the manifest, pdf → key) of the site at ``output``, if ours."""
-    manifest, state = output / MANIFEST_NAME, output / _BUILD_STATE
-    if not (output / _MARKER).is_file() or not manifest.is_file() or not state.is_file():
-        return {}, {}
-    digests = {}
+@dataclass
+class _BuildState:
+    """What a build records about its site for the next one (``.acceptance-build.json``)."""
+
+    digests: dict[str, str] = field(default_factory=dict)  # file → sha256, from the manifest
+    keys: dict[str, str] = field(default_factory=dict)  # pdf → key of what it was made from
+    pages: dict[str, int] = field(default_factory=dict)  # pdf → page count
+    kept: dict[str, str] = field(default_factory=dict)  # kept part → sha256 (not listed)
+
+    def digest(self, name: str) -> str | None:
+        return self.digests.get(name) or self.kept.get(name)
+
+    def to_json(self) -> str:
+        return json.dumps({"tool_version": __version__, "pdfs": self.keys, "pages": self.pages,
+                           "kept": self.kept}, indent=1, sort_keys=True) + "\n"
+
+
+def _previous_state(output: Path) -> _BuildState:
+    """The state of the site at ``output``, if ours; an empty one otherwise."""
+    manifest, path = output / MANIFEST_NAME, output / _BUILD_STATE
+    if not (output / _MARKER).is_file() or not manifest.is_file() or not path.is_file():
+        return _BuildState()
+    state = _BuildState()
     for line in manifest.read_text(encoding="utf-8").splitlines():
         digest, _, name = line.partition("  ")
         if name:
-            digests[name] = digest
+            state.digests[name] = digest
     try:
-        keys = json.loads(state.read_text(encoding="utf-8")).get("pdfs", {})
-    except ValueError:
-        keys = {}
-    return digests, keys
+        recorded = json.loads(path.read_text(encoding="utf-8"))
+        state.keys = dict(recorded.get("pdfs", {}))
+        state.pages = {name: int(count) for name, count in recorded.get("pages", {}).items()}
+        state.kept = dict(recorded.get("kept", {}))
+    except (ValueError, TypeError, AttributeError):
+        return _BuildState(digests=state.digests)
+    return state
+
+
+def _count_missing_pages(tasks: list[PdfTask], staging: Path, state: _BuildState) -> None:
+    """Count the pages of PDFs reused from a site built before page counts were recorded."""
+    from .rendering.package import page_count
+
+    for task in tasks:
+        if task.pdf not in state.pages and (staging / task.pdf).is_file():
+            state.pages[task.pdf] = page_count(staging / task.pdf)
+
+
+def _keep_front(front: object, staging: Path, state: _BuildState) -> None:
+    """Record the package's front (and every kept part's digest) for the next build; a
+    front kept from the previous build when the package was not joined again is carried
+    over."""
+    from .rendering.package import FRONT_NAME, PARTS_FOLDER
+
+    name = f"{PARTS_FOLDER}/{FRONT_NAME}"
+    if front is not None:
+        target = staging / name
+        if not target.exists():
+            _link_or_copy(front.pdf, target)  # type: ignore[attr-defined]
+        state.keys[name] = front.key  # type: ignore[attr-defined]
+        state.pages[name] = front.pages  # type: ignore[attr-defined]
+    folder = staging / PARTS_FOLDER
+    if folder.is_dir():
+        state.kept = {path.relative_to(staging).as_posix(): _file_digest(path) or ""
+                      for path in sorted(folder.iterdir()) if path.is_file()}
+
+
+def _kept_front(output: Path, state: _BuildState):  # noqa: ANN202 - KeptPart | None
+    """The previous build's package front, if it is still the file that build recorded."""
+    from .rendering.package import FRONT_NAME, PARTS_FOLDER, KeptPart
+
+    name = f"{PARTS_FOLDER}/{FRONT_NAME}"
+    key, pages, digest = state.keys.get(name), state.pages.get(name), state.kept.get(name)
+    if key is None or pages is None or digest is None \
+            or _file_digest(output / name) != digest:
+        return None
+    return KeptPart(key, pages, output / name)
 
 
 def _render_one(task: PdfTask, staging: str) -> tuple[str, int]:
     from .rendering.pdf import render_pdf  # the PDF stack loads only when needed
 
     root = Path(staging)
-    return task.pdf, render_pdf(root / task.html, root / task.pdf, roots=[root],
-                                attachments=task.attachments,  # type: ignore[arg-type]
-                                info=task.info)  # type: ignore[arg-type]
+    (root / task.pdf).parent.mkdir(parents=True, exist_ok=True)
+    pages = render_pdf(root / task.html, root / task.pdf, roots=[root],
+                       attachments=task.attachments,  # type: ignore[arg-type]
+                       info=task.info,  # type: ignore[arg-type]
+                       links_from=root if task.part else None)
+    if task.part:  # a long document: give back what its layout held before the next one
+        _release_memory()
+    return task.pdf, pages
 
 
 #: Documents a PDF worker renders before it is replaced (WeasyPrint keeps what it loaded).
@@ -476,12 +576,13 @@ def _render_star(arguments: tuple[PdfTask, str]) -> tuple[str, int]:
 
 
 def _render_pdfs(tasks: list[PdfTask], staging: Path, jobs: int,
-                 progress: Callable[[str], None] | None) -> int:
-    """Render ``tasks`` into ``staging``; in worker processes when ``jobs`` > 1."""
-    pages = 0
+                 progress: Callable[[str], None] | None) -> dict[str, int]:
+    """Render ``tasks`` into ``staging``, in worker processes when ``jobs`` > 1; return the
+    page count of each PDF."""
+    pages: dict[str, int] = {}
     if jobs <= 1 or len(tasks) <= 1:
         for number, task in enumerate(tasks, start=1):
-            pages += _render_one(task, str(staging))[1]
+            pages[task.pdf] = _render_one(task, str(staging))[1]
             if progress:
                 progress(f"[{number}/{len(tasks)}] {task.pdf}")
         return pages
@@ -492,7 +593,7 @@ def _render_pdfs(tasks: list[PdfTask], staging: Path, jobs: int,
         work = [(task, str(staging)) for task in tasks]
         for number, (name, count) in enumerate(
                 pool.imap_unordered(_render_star, work, chunksize=1), start=1):
-            pages += count
+            pages[name] = count
             if progress:
                 progress(f"[{number}/{len(tasks)}] {name}")
     return pages
@@ -546,22 +647,25 @@ def build_site(job_root: Path, output: Path, with_pdf: bool = True,
         files = _site_files(job, result, pages)
         tasks = _archival_tasks(job, result, pages, files) if with_pdf else []
         report.pages = len(pages)
-        previous_digests, previous_keys = _previous_state(output)
+        previous = _previous_state(output)
         digests = {name: hashlib.sha256(data).hexdigest() for name, data in files.items()}
-        # A previous PDF is reused only if it is still the file its manifest names: one
-        # replaced in the output folder is rendered again, never carried forward.
-        reusable = [t for t in tasks if previous_keys.get(t.pdf) == t.key
-                    and t.pdf in previous_digests
-                    and _file_digest(output / t.pdf) == previous_digests[t.pdf]]
-        expected = set(digests) | {t.pdf for t in tasks}
-        if (len(reusable) == len(tasks) and set(previous_digests) == expected
-                and all(previous_digests.get(n) == d for n, d in digests.items())):
+        # A previous PDF is reused only if it is still the file the previous build recorded:
+        # one replaced in the output folder is rendered again, never carried forward.
+        reusable = [t for t in tasks if previous.keys.get(t.pdf) == t.key
+                    and previous.digest(t.pdf) is not None
+                    and _file_digest(output / t.pdf) == previous.digest(t.pdf)]
+        documents = [t for t in tasks if not t.part]  # the back parts are kept, not listed
+        listed = set(digests) | {t.pdf for t in documents}
+        if (all(t in reusable for t in documents) and set(previous.digests) == listed
+                and all(previous.digests.get(n) == d for n, d in digests.items())):
             report.unchanged = True
-            report.pdfs = len(tasks)
-            report.files = sorted(expected)
+            report.pdfs = len(documents)
+            report.files = sorted(listed)
             if key is not None:
                 _sign_unchanged_manifest(output, key)
             return report
+        front_prefix = _shared_key(files).digest() + repr(_package_info(job, result)).encode()
+        kept_front = _kept_front(output, previous) if with_pdf else None
         staging = output.with_name(f".{output.name}.staging-{os.getpid()}")
         if staging.exists():
             shutil.rmtree(staging)
@@ -578,14 +682,22 @@ def build_site(job_root: Path, output: Path, with_pdf: bool = True,
             for task in reusable:
                 _link_or_copy(output / task.pdf, staging / task.pdf)
             fresh = [t for t in tasks if t not in reusable]
-            report.pdf_pages = _render_pdfs(_records(fresh), staging, jobs, progress)
-            report.pdf_pages += _render_package(job, result, fresh, staging, progress, jobs)
-            report.pdfs = len(tasks)
-            report.rendered = len(fresh)
-            (staging / _BUILD_STATE).write_text(
-                json.dumps({"tool_version": __version__,
-                            "pdfs": {t.pdf: t.key for t in tasks}}, indent=1, sort_keys=True)
-                + "\n", encoding="utf-8")
+            if not _documents(fresh, package=True):  # the back parts serve only the package
+                fresh = [t for t in fresh if not t.part]
+            state = _BuildState(keys={t.pdf: t.key for t in tasks})
+            state.pages = {t.pdf: previous.pages[t.pdf] for t in reusable
+                           if t.pdf in previous.pages}
+            state.pages.update(_render_pdfs(_documents(fresh, package=False), staging, jobs,
+                                            progress))
+            _count_missing_pages(tasks, staging, state)
+            package_pages, front = _render_package(job, result, fresh, staging, state.pages,
+                                                   front_prefix, kept_front, progress, jobs)
+            _keep_front(front, staging, state)
+            report.pdfs = len(documents)
+            report.rendered = sum(1 for t in fresh if not t.part)
+            report.pdf_pages = package_pages + sum(
+                state.pages[t.pdf] for t in _documents(fresh, package=False) if not t.part)
+            (staging / _BUILD_STATE).write_text(state.to_json(), encoding="utf-8")
             (staging / _MARKER).write_text(f"acceptance {__version__}\n", encoding="utf-8")
             report.files = _write_manifest(staging)
             _sign_manifest(staging, key)

@@ -32,8 +32,9 @@ from tests.conftest import PASSING_SUPPLY, write_job
 
 pytestmark = pytest.mark.slow
 
-# Files the manifest leaves out by design: itself, the marker and the build state.
-_UNLISTED = {"MANIFEST.sha256", ".acceptance-site", ".acceptance-build.json"}
+# Files the manifest leaves out by design: itself, and the build's bookkeeping (the marker,
+# the build state and the package's kept parts, all named .acceptance-*).
+_UNLISTED = {"MANIFEST.sha256"}
 KILL_POINTS = 10
 
 
@@ -53,7 +54,8 @@ def site_state(output: Path) -> str:
     for line in manifest.splitlines():
         digest, _, name = line.partition("  ")
         listed[name] = digest
-    present = {p.relative_to(output).as_posix() for p in output.rglob("*") if p.is_file()}
+    present = {p.relative_to(output).as_posix() for p in output.rglob("*") if p.is_file()
+               and not p.relative_to(output).parts[0].startswith(".acceptance-")}
     assert present - _UNLISTED == set(listed), present ^ set(listed)
     for name, digest in listed.items():
         assert hashlib.sha256((output / name).read_bytes()).hexdigest() == digest, name

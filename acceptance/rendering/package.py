@@ -3,17 +3,20 @@
 The package (``package.pdf``) is a cover and a contents list followed by every visit's record,
 the deficiencies and the instrument register. WeasyPrint keeps a whole laid-out document in
 memory (about 2.4 MB a page), so the package is never laid out as one document: each part is
-rendered on its own (the visit records are the PDFs the build has already written), and the
-parts are joined by :mod:`.pdfjoin`, which writes each part out before it reads the next. The
+rendered on its own (the visit records are the PDFs the build has already written; the
+deficiencies and the register are laid out beside them, in the same workers), and the parts
+are joined by :mod:`.pdfjoin`, which writes each part out before it reads the next. The
 contents are therefore numbered from the page counts of the rendered parts rather than with
 ``target-counter()``, which cannot see across separately rendered documents; the cover and
 contents are laid out again if their own length changes those numbers. Each part keeps its
-outline, nested under one entry per part.
+outline, nested under one entry per part. The laid-out parts are kept in
+:data:`PARTS_FOLDER` so that the next build lays out only those whose page changed.
 """
 
 from __future__ import annotations
 
 import datetime as _dt
+import hashlib
 import os
 import shutil
 from collections.abc import Callable, Mapping, Sequence
@@ -27,11 +30,22 @@ if TYPE_CHECKING:
     from ..loading import Job, LoadedMachine, LoadedVisit
     from ..results import JobResult, VisitResult
 
-__all__ = ["PACKAGE_NAME", "PackagePart", "build_moment", "visit_sources", "visit_pdf_info",
-           "package_parts", "render_package", "lay_out_part"]
+__all__ = ["PACKAGE_NAME", "PARTS_FOLDER", "BACK_PARTS", "PackagePart", "KeptPart",
+           "back_part_pdf", "build_moment", "visit_sources", "visit_pdf_info", "package_parts",
+           "page_count", "render_package", "lay_out_part"]
 
 PACKAGE_NAME = "package.pdf"
-_WORK = ".package-work"
+#: The package's own parts, kept in the site between builds but outside its manifest, so
+#: that a part whose page has not changed is not laid out again.
+PARTS_FOLDER = ".acceptance-package"
+FRONT_NAME = "front.pdf"
+#: The parts after the records: (title, page of the site they are laid out from).
+BACK_PARTS = (("Deficiencies", "deficiencies.html"), ("Instruments", "instruments.html"))
+
+
+def back_part_pdf(page: str) -> str:
+    """Where the part laid out from ``page`` is kept, relative to the site."""
+    return f"{PARTS_FOLDER}/{page.removesuffix('.html')}.pdf"
 
 
 def build_moment(fallback: _dt.date) -> _dt.datetime:
@@ -105,75 +119,87 @@ def package_parts(result: JobResult, staging: Path, extra: Sequence[tuple[str, P
     return parts
 
 
-def _page_count(path: Path) -> int:
+def page_count(path: Path) -> int:
     from pypdf import PdfReader
 
     return len(PdfReader(path).pages)
 
 
+@dataclass(frozen=True)
+class KeptPart:
+    """A part of the package laid out by the previous build: its key and page count, and
+    the file, already checked against the digest the build recorded."""
+
+    key: str
+    pages: int
+    pdf: Path
+
+
 def lay_out_part(html: Path, target: Path, site: Path, info: PdfInfo,
-                 sources: Sequence[tuple[str, Path, str]] = (), pages: int | None = None) -> int:
+                 pages: int | None = None) -> int:
     """Lay out one part of the package and, unless it does not come to ``pages`` pages, write
-    it to ``target`` as PDF/A-3b with ``sources`` (name, file, description) embedded; return
-    the page count. Reads its files itself, so it can run in a process of its own."""
+    it to ``target`` as PDF/A-3b; return the page count. Reads its files itself, so it can
+    run in a process of its own."""
     from .pdf import render_document, write_archival
 
     document = render_document(html, [site])
     count = len(document.pages)
     if pages is None or count == pages:
-        embedded = [PdfSource(name, path.read_bytes(), description)
-                    for name, path, description in sources]
-        write_archival(document, target, embedded, info, site_root=site, links_from=site)
+        write_archival(document, target, (), info, site_root=site, links_from=site)
     return count
 
 
 def render_package(env: Any, result: JobResult, staging: Path, signatures: Mapping[str, Any],
-                   sources: Sequence[tuple[str, Path, str]], info: PdfInfo,
+                   attachments: Sequence[PdfSource], info: PdfInfo, counts: Mapping[str, int],
+                   key_prefix: bytes, kept_front: KeptPart | None = None,
                    progress: Callable[[str], None] | None = None,
-                   lay_out: Callable[..., int] = lay_out_part) -> int:
-    """Write ``package.pdf`` into ``staging``; return its page count.
+                   lay_out: Callable[..., int] = lay_out_part) -> tuple[int, KeptPart]:
+    """Write ``package.pdf`` into ``staging``; return its page count and its front part.
 
-    ``env`` is the site's Jinja2 environment (with the review globals); the deficiencies and
-    instruments pages must already be in ``staging``. Each laid-out part goes through
+    ``env`` is the site's Jinja2 environment (with the review globals). Every record and the
+    back parts (:data:`BACK_PARTS`) must already be in ``staging``, with their page counts in
+    ``counts`` (keyed by site path). The cover and contents are laid out again only when
+    their page differs from ``kept_front``'s (keyed ``key_prefix`` + page), through
     ``lay_out`` (called as :func:`lay_out_part`), which the build runs in a process that exits
-    afterwards: WeasyPrint does not give back what a long register held.
+    afterwards. ``attachments`` are embedded by the join, so a change to them alone does not
+    lay out the front again.
     """
     from .pdfjoin import join_pdfs
 
-    work = staging / _WORK
-    work.mkdir()
+    work = staging / PARTS_FOLDER
+    work.mkdir(exist_ok=True)
+    parts = package_parts(result, staging, [(title, staging / back_part_pdf(page))
+                                            for title, page in BACK_PARTS], signatures)
+    part_counts = [counts[part.pdf.relative_to(staging).as_posix()] for part in parts]
+    front_pdf, front_html = work / FRONT_NAME, work / "front.html"
+    template = env.get_template("package.html")
+    front_pages = kept_front.pages if kept_front is not None else 1
     try:
-        extra = []
-        for title, page in (("Deficiencies", "deficiencies.html"),
-                            ("Instruments", "instruments.html")):
-            target = work / page.replace(".html", ".pdf")
-            if progress:
-                progress(f"{PACKAGE_NAME}: {title.lower()}")
-            lay_out(staging / page, target, staging, info)
-            extra.append((title, target))
-        parts = package_parts(result, staging, extra, signatures)
-        counts = [_page_count(part.pdf) for part in parts]
-        front_pages, front_pdf = 1, work / "front.pdf"
-        template = env.get_template("package.html")
         for _attempt in range(4):
             starts, page = [], front_pages + 1
-            for count in counts:
+            for count in part_counts:
                 starts.append(page)
                 page += count
-            html = template.render(root="../", parts=list(zip(parts, starts, counts,
+            html = template.render(root="../", parts=list(zip(parts, starts, part_counts,
                                                                strict=True)),
                                    total_pages=page - 1, built=info.modified)
-            front_html = work / "front.html"
+            key = hashlib.sha256(key_prefix + html.encode()).hexdigest()
+            if kept_front is not None and key == kept_front.key:
+                shutil.copy2(kept_front.pdf, front_pdf)
+                break
+            if progress:
+                progress(f"{PACKAGE_NAME}: cover and contents")
             front_html.write_text(html, encoding="utf-8")
-            laid_out = lay_out(front_html, front_pdf, staging, info, sources, front_pages)
+            laid_out = lay_out(front_html, front_pdf, staging, info, front_pages)
             if laid_out == front_pages:
                 break
             front_pages = laid_out
         else:  # pragma: no cover - the contents would have to grow with every pass
             raise RuntimeError("the package contents did not settle on a page count")
-        if progress:
-            progress(f"{PACKAGE_NAME}: joining {len(parts)} parts")
-        join_pdfs(staging / PACKAGE_NAME, front_pdf, [(part.title, part.pdf) for part in parts])
-        return front_pages + sum(counts)
     finally:
-        shutil.rmtree(work, ignore_errors=True)
+        front_html.unlink(missing_ok=True)
+    if progress:
+        progress(f"{PACKAGE_NAME}: joining {len(parts)} parts")
+    join_pdfs(staging / PACKAGE_NAME, front_pdf, [(part.title, part.pdf) for part in parts],
+              attachments, info.modified)
+    return front_pages + sum(part_counts), KeptPart(key, front_pages, front_pdf)

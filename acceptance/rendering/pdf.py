@@ -100,11 +100,13 @@ def render_document(html_path: Path, roots: list[Path]):  # noqa: ANN201 - weasy
 
 def render_pdf(html_path: Path, pdf_path: Path, roots: list[Path],
                attachments: Sequence[PdfSource] | None = None,
-               info: PdfInfo | None = None) -> int:
+               info: PdfInfo | None = None, links_from: Path | None = None) -> int:
     """Render ``html_path`` (with its print styles) to ``pdf_path`` as PDF/A-3b, embedding
-    ``attachments``; return the page count."""
+    ``attachments``; return the page count. Links into the site are made relative to
+    ``links_from`` (by default the PDF's own folder)."""
     document = render_document(html_path, roots)
-    write_archival(document, pdf_path, attachments or (), info, site_root=roots[0])
+    write_archival(document, pdf_path, attachments or (), info, site_root=roots[0],
+                   links_from=links_from)
     return len(document.pages)
 
 
