@@ -56,6 +56,9 @@ extras=""
 [ "$mode" = test ] && extras="[test]"
 .venv/bin/python -m pip install --quiet --disable-pip-version-check --upgrade pip >/dev/null
 .venv/bin/python -m pip install --quiet --disable-pip-version-check -e ".${extras}"
+# pip compiles an installed wheel to bytecode but not an editable source tree; without this,
+# a shell with PYTHONDONTWRITEBYTECODE set compiles the tool on every start.
+.venv/bin/python -m compileall -q acceptance >/dev/null
 
 if [ "$mode" = demo ]; then
   exec .venv/bin/acceptance build demo_job -o demo_site
