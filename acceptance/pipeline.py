@@ -20,6 +20,7 @@ from collections.abc import Callable, Iterator
 from dataclasses import dataclass, field
 from functools import partial
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from . import __version__
 from .errors import BuildError
@@ -28,6 +29,10 @@ from .loading import Job, load_job
 from .rendering.html import make_environment
 from .resources import templates_dir
 from .results import RESULTS_SCHEMA, JobResult, VisitResult, VisitState, to_json
+
+if TYPE_CHECKING:  # the PDF stack loads only when a build renders PDFs
+    from .rendering.package import KeptPart
+    from .rendering.pdf import PdfInfo
 
 __all__ = ["BuildReport", "SitePage", "build_site", "plan_site", "MANIFEST_NAME"]
 
@@ -250,10 +255,10 @@ class PdfTask:
 _BUILD_STATE = ".acceptance-build.json"
 
 
-def _site_files(job: Job, result: JobResult, pages: list[SitePage]) -> dict[str, bytes]:
+def _site_files(job: Job, result: JobResult, pages: list[SitePage],
+                signatures: dict[str, object]) -> dict[str, bytes]:
     """Every output file but the PDFs, in memory: rendering HTML is cheap, PDFs are not."""
     files: dict[str, bytes] = {}
-    signatures = _signature_states(job)
     env = _review_environment(result, signatures)
     for page in pages:
         template = env.get_template(page.template)
@@ -319,7 +324,8 @@ def _review_files(result: JobResult, signatures: dict[str, object]) -> dict[str,
 
 
 def _archival_tasks(job: Job, result: JobResult, pages: list[SitePage],
-                    files: dict[str, bytes]) -> list[PdfTask]:
+                    files: dict[str, bytes], signatures: dict[str, object],
+                    shared: bytes, info: PdfInfo) -> list[PdfTask]:
     """The record PDFs with the sources they embed and their metadata, then the package.
 
     A task's key covers the embedded files and the dates as well as the page, so a change
@@ -337,9 +343,8 @@ def _archival_tasks(job: Job, result: JobResult, pages: list[SitePage],
 
     visits = {f"machines/{m.id}/{v.id}.pdf": (m, v) for m in job.machines for v in m.visits}
     results = {f"machines/{v.machine}/{v.id}.pdf": v for v in result.visits}
-    signatures = _signature_states(job)
     tasks = []
-    for task in _pdf_tasks(pages, files):
+    for task in _pdf_tasks(pages, files, shared):
         if task.pdf in visits:
             machine, visit = visits[task.pdf]
             sources = tuple(visit_sources(job, machine, visit))
@@ -352,12 +357,9 @@ def _archival_tasks(job: Job, result: JobResult, pages: list[SitePage],
             task = dataclasses.replace(task, attachments=sources, info=info,
                                        key=key.hexdigest())
         tasks.append(task)
-    info = _package_info(job, result)
-    shared = _shared_key(files)
     parts = []
     for _title, page in BACK_PARTS:
-        key = shared.copy()
-        key.update(page.encode() + b"\0" + files[page] + repr(info).encode())
+        key = hashlib.sha256(shared + page.encode() + b"\0" + files[page] + repr(info).encode())
         parts.append(PdfTask(page, back_part_pdf(page), key.hexdigest(), info=info, part=True))
     package = hashlib.sha256(b"package\0" + "".join(t.key for t in [*tasks, *parts]).encode())
     package.update(b"results.json\0" + hashlib.sha256(files["results.json"]).digest())
@@ -367,7 +369,7 @@ def _archival_tasks(job: Job, result: JobResult, pages: list[SitePage],
     return [*parts, *tasks, PdfTask(PACKAGE_NAME, PACKAGE_NAME, package.hexdigest())]
 
 
-def _package_info(job: Job, result: JobResult):  # noqa: ANN202
+def _package_info(job: Job, result: JobResult) -> PdfInfo:
     import datetime as _dt
 
     from .rendering.package import build_moment
@@ -389,10 +391,11 @@ def _documents(tasks: list[PdfTask], package: bool) -> list[PdfTask]:
     return [t for t in tasks if (t.pdf == PACKAGE_NAME) is package]
 
 
-def _render_package(job: Job, result: JobResult, tasks: list[PdfTask], staging: Path,
-                    counts: dict[str, int], front_prefix: bytes, kept_front: object,
+def _render_package(result: JobResult, tasks: list[PdfTask], staging: Path,
+                    signatures: dict[str, object], info: PdfInfo, counts: dict[str, int],
+                    front_prefix: bytes, kept_front: KeptPart | None,
                     progress: Callable[[str], None] | None, jobs: int = 1
-                    ) -> tuple[int, object]:
+                    ) -> tuple[int, KeptPart | None]:
     """Write package.pdf when its task is among ``tasks``, every other PDF being in place
     with its page count in ``counts``; return its page count and its front part (or
     ``kept_front`` when the package was not written)."""
@@ -401,14 +404,12 @@ def _render_package(job: Job, result: JobResult, tasks: list[PdfTask], staging: 
 
     if not _documents(tasks, package=True):
         return 0, kept_front
-    signatures = _signature_states(job)
     results = PdfSource("results.json", (staging / "results.json").read_bytes(),
                         "the computed results (schema " + RESULTS_SCHEMA + ")")
-    info = _package_info(job, result)
     lay_out = partial(_in_worker, lay_out_part) if jobs > 1 else lay_out_part
     return render_package(_review_environment(result, signatures), result, staging,
                           signatures, [results], info, counts, front_prefix,
-                          kept_front, progress, lay_out)  # type: ignore[arg-type]
+                          kept_front, progress, lay_out)
 
 
 def _in_worker(function: Callable[..., int], *arguments: object) -> int:
@@ -452,7 +453,7 @@ def _sign_unchanged_manifest(output: Path, key: Path) -> None:
     os.replace(temporary, target)
 
 
-def _shared_key(files: dict[str, bytes]):  # noqa: ANN202 - hashlib object
+def _shared_key(files: dict[str, bytes]) -> bytes:
     """What every PDF is made from besides its page: the tool version and the assets but
     the scripts, which WeasyPrint does not run. (The index's filter data is a script that
     changes with any verdict; were it in the key, one new deficiency would render every
@@ -461,17 +462,16 @@ def _shared_key(files: dict[str, bytes]):  # noqa: ANN202 - hashlib object
     for name in sorted(files):
         if name.startswith("assets/") and not name.endswith(".js"):
             shared.update(name.encode() + b"\0" + hashlib.sha256(files[name]).digest())
-    return shared
+    return shared.digest()
 
 
-def _pdf_tasks(pages: list[SitePage], files: dict[str, bytes]) -> list[PdfTask]:
-    shared = _shared_key(files)
+def _pdf_tasks(pages: list[SitePage], files: dict[str, bytes], shared: bytes
+               ) -> list[PdfTask]:
     tasks = []
     for page in pages:
         if page.pdf is None:
             continue
-        key = shared.copy()
-        key.update(page.path.encode() + b"\0" + files[page.path])
+        key = hashlib.sha256(shared + page.path.encode() + b"\0" + files[page.path])
         tasks.append(PdfTask(page.path, page.pdf, key.hexdigest()))
     return tasks
 
@@ -522,7 +522,7 @@ def _count_missing_pages(tasks: list[PdfTask], staging: Path, state: _BuildState
             state.pages[task.pdf] = page_count(staging / task.pdf)
 
 
-def _keep_front(front: object, staging: Path, state: _BuildState) -> None:
+def _keep_front(front: KeptPart | None, staging: Path, state: _BuildState) -> None:
     """Record the package's front (and every kept part's digest) for the next build; a
     front kept from the previous build when the package was not joined again is carried
     over."""
@@ -532,16 +532,16 @@ def _keep_front(front: object, staging: Path, state: _BuildState) -> None:
     if front is not None:
         target = staging / name
         if not target.exists():
-            _link_or_copy(front.pdf, target)  # type: ignore[attr-defined]
-        state.keys[name] = front.key  # type: ignore[attr-defined]
-        state.pages[name] = front.pages  # type: ignore[attr-defined]
+            _link_or_copy(front.pdf, target)
+        state.keys[name] = front.key
+        state.pages[name] = front.pages
     folder = staging / PARTS_FOLDER
     if folder.is_dir():
         state.kept = {path.relative_to(staging).as_posix(): _file_digest(path) or ""
                       for path in sorted(folder.iterdir()) if path.is_file()}
 
 
-def _kept_front(output: Path, state: _BuildState):  # noqa: ANN202 - KeptPart | None
+def _kept_front(output: Path, state: _BuildState) -> KeptPart | None:
     """The previous build's package front, if it is still the file that build recorded."""
     from .rendering.package import FRONT_NAME, PARTS_FOLDER, KeptPart
 
@@ -644,8 +644,11 @@ def build_site(job_root: Path, output: Path, with_pdf: bool = True,
     with _build_lock(output):
         _clear_leftovers(output)
         pages = plan_site(result)
-        files = _site_files(job, result, pages)
-        tasks = _archival_tasks(job, result, pages, files) if with_pdf else []
+        signatures = _signature_states(job)
+        files = _site_files(job, result, pages, signatures)
+        shared, package_info = _shared_key(files), _package_info(job, result)
+        tasks = _archival_tasks(job, result, pages, files, signatures, shared,
+                                package_info) if with_pdf else []
         report.pages = len(pages)
         previous = _previous_state(output)
         digests = {name: hashlib.sha256(data).hexdigest() for name, data in files.items()}
@@ -664,7 +667,7 @@ def build_site(job_root: Path, output: Path, with_pdf: bool = True,
             if key is not None:
                 _sign_unchanged_manifest(output, key)
             return report
-        front_prefix = _shared_key(files).digest() + repr(_package_info(job, result)).encode()
+        front_prefix = shared + repr(package_info).encode()
         kept_front = _kept_front(output, previous) if with_pdf else None
         staging = output.with_name(f".{output.name}.staging-{os.getpid()}")
         if staging.exists():
@@ -690,8 +693,9 @@ def build_site(job_root: Path, output: Path, with_pdf: bool = True,
             state.pages.update(_render_pdfs(_documents(fresh, package=False), staging, jobs,
                                             progress))
             _count_missing_pages(tasks, staging, state)
-            package_pages, front = _render_package(job, result, fresh, staging, state.pages,
-                                                   front_prefix, kept_front, progress, jobs)
+            package_pages, front = _render_package(result, fresh, staging, signatures,
+                                                   package_info, state.pages, front_prefix,
+                                                   kept_front, progress, jobs)
             _keep_front(front, staging, state)
             report.pdfs = len(documents)
             report.rendered = sum(1 for t in fresh if not t.part)

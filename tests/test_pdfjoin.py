@@ -68,7 +68,8 @@ def test_files_given_to_the_join_are_embedded_as_sources(tmp_path):
     assert reader.attachments == {"results.json": [data]}
     catalog = reader.trailer["/Root"]
     # ISO 19005-3 6.8 / ISO 32000-2 7.11.3: each embedded file is named in the catalog's /AF
-    # with its relationship; the embedded stream carries its size and MD5 check sum.
+    # with its relationship; the embedded stream's /Params carry its size (ISO 32000-1
+    # 7.11.4, Table 45) and dates written D:YYYYMMDDHHmmSSZ (ISO 32000-1 7.9.4) [S].
     (spec,) = [entry.get_object() for entry in catalog["/AF"]]
     assert spec["/AFRelationship"] == "/Source" and spec["/UF"] == "results.json"
     params = spec["/EF"]["/F"].get_object()["/Params"]

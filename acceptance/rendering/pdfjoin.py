@@ -144,17 +144,11 @@ class _Part:
 
 def _named_destinations(reader: PdfReader) -> dict[str, Any]:
     names: dict[str, Any] = {}
-    root = reader.trailer["/Root"]
-    tree = root.get("/Names", {}).get("/Dests")
-    stack = [tree.get_object()] if tree is not None else []
-    while stack:
-        node = stack.pop()
-        flat = node.get("/Names", [])
-        for index in range(0, len(flat) - 1, 2):
-            target = flat[index + 1].get_object()
-            names.setdefault(str(flat[index]), target.get("/D", target)
-                             if isinstance(target, DictionaryObject) else target)
-        stack.extend(kid.get_object() for kid in node.get("/Kids", []))
+    tree = reader.trailer["/Root"].get("/Names", {}).get("/Dests")
+    for name, value in _name_tree_leaves(tree):
+        target = value.get_object()
+        names.setdefault(name, target.get("/D", target)
+                         if isinstance(target, DictionaryObject) else target)
     return names
 
 
