@@ -46,8 +46,10 @@ def run(args: argparse.Namespace) -> int:
         if report.unchanged:
             print(f"{report.output} is up to date; nothing was written")
         else:
-            print(f"wrote {report.pages} pages and results.json; {report.rendered} of "
-                  f"{report.pdfs} PDF records rendered ({report.pdf_pages} pages), the rest "
-                  f"unchanged; to {report.output}")
+            rest = ", the rest unchanged" if report.rendered < report.pdfs else ""
+            pdfs = (f"{report.rendered} of {report.pdfs} PDF records rendered "
+                    f"({report.pdf_pages} pages){rest}" if report.pdfs
+                    else "no PDF records (--no-pdf)")
+            print(f"wrote {report.pages} pages and results.json; {pdfs}; to {report.output}")
         print(f"open {index.as_uri()}")
     return 0
