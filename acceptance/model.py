@@ -53,9 +53,9 @@ def _quantity(*dimensions: Dimension, example: str) -> Any:
 
 
 Voltage = _quantity(Dimension.VOLTAGE, example="230 V")
-Current = _quantity(Dimension.CURRENT, example="10.5 A")
-Resistance = _quantity(Dimension.RESISTANCE, example="28.0 Ω")
-Capacitance = _quantity(Dimension.CAPACITANCE, example="470 µF")
+Current = _quantity(Dimension.CURRENT, example="9.5 A")
+Resistance = _quantity(Dimension.RESISTANCE, example="34.0 Ω")
+Capacitance = _quantity(Dimension.CAPACITANCE, example="1000 µF")
 Frequency = _quantity(Dimension.FREQUENCY, example="50 Hz")
 Temperature = _quantity(Dimension.TEMPERATURE, example="20 °C")
 TemperatureDifference = _quantity(Dimension.TEMPERATURE_DIFFERENCE, example="80 K")

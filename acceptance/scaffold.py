@@ -91,7 +91,7 @@ def visit_template(job: Job, machine: LoadedMachine, kind: str, date: _dt.date,
     lines = [
         f"# yaml-language-server: $schema={schema_reference}",
         f"# {kind.capitalize()} visit of {machine.model.name} ({machine.id}).",
-        "# Fill in each reading with its unit as you read it (e.g. 229.8 V, 28.6 Ω, 18.4 µF).",
+        "# Fill in each reading with its unit as you read it (e.g. 232.6 V, 34.6 Ω, 31.7 µF).",
         "# Leave a blank where an item was not tested; write n/a where it does not apply",
         "# (never for a safety-critical item). Qualified persons only; local codes govern.",
         f"kind: {kind}",

@@ -1,4 +1,4 @@
-"""Quantities as people write them on site: ``"221.3 V"``, ``"18.4 µF"``, ``"0.03 Ω"``.
+"""Quantities as people write them on site: ``"232.6 V"``, ``"31.7 µF"``, ``"0.16 Ω"``.
 
 Raw strings become typed :class:`Quantity` values here and nowhere else. The unit
 table is deliberately closed: only spellings a practitioner would write are
@@ -451,9 +451,9 @@ def _unit_hint(unit_text: str, expected: tuple[Dimension, ...]) -> str:
 def _example_value(dimension: Dimension) -> str:
     return {
         Dimension.VOLTAGE: "230 V",
-        Dimension.CURRENT: "10.5 A",
-        Dimension.RESISTANCE: "28.2 Ω",
-        Dimension.CAPACITANCE: "18.4 µF",
+        Dimension.CURRENT: "9.5 A",
+        Dimension.RESISTANCE: "34.6 Ω",
+        Dimension.CAPACITANCE: "31.7 µF",
         Dimension.FREQUENCY: "50 Hz",
         Dimension.TEMPERATURE: "21 °C",
         Dimension.TEMPERATURE_DIFFERENCE: "65 K",

@@ -138,10 +138,11 @@ DEMO_CAPTURE = Path("demo_job/machines/mag-table-1/captures/line-current.csv")
 
 
 def write_mag_table_demo(path: str | Path = DEMO_CAPTURE) -> Path:
-    """The demo job's capture: an invented magnetic table's 28 Ω coil on 230 V 50 Hz."""
-    run = simulate_bridge_rectifier(supply_rms=230.0, frequency=50.0, source_resistance=0.5,
-                                    source_inductance=0.5e-3, capacitance=2200e-6,
-                                    load_resistance=28.0, sample_rate=20_000.0, duration=0.3)
+    """The demo job's capture: an invented magnetic table's 34.6 Ω coil (as measured cold)
+    behind a 1000 µF filter, on a 232 V 50 Hz supply of 0.7 Ω + 0.8 mH."""
+    run = simulate_bridge_rectifier(supply_rms=232.0, frequency=50.0, source_resistance=0.7,
+                                    source_inductance=0.8e-3, capacitance=1000e-6,
+                                    load_resistance=34.6, sample_rate=20_000.0, duration=0.3)
     return write_demo_capture(path, run, comments=(
         "Demo capture (simulated): mag-table-1 coil supply, line side of the rectifier",
         "CH1 supply voltage through a x100 differential probe; CH2 line current through a "

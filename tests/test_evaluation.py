@@ -118,7 +118,7 @@ def test_current_within_the_rating_on_the_same_basis(make_job, evaluate):
 
 
 def test_current_above_the_rating(make_job, evaluate):
-    result = evaluate(current_job(make_job, {"value": "10.4 A", "instrument": "clamp-trms"}))
+    result = evaluate(current_job(make_job, {"value": "10.6 A", "instrument": "clamp-trms"}))
     assert result.check("current.load_current", "L", "nameplate").verdict is Verdict.FAIL
     assert result.check("current.load_current", "L", "protection").verdict is Verdict.PASS
     assert result.item("current.load_current").verdict is Verdict.FAIL

@@ -30,10 +30,10 @@ GREEK_MU = "\u03bc"
         ("12.5 mV", D.VOLTAGE, 12.5e-3, "mV"),
         ("10.5 A", D.CURRENT, 10.5, "A"),
         ("450 mA", D.CURRENT, 0.45, "mA"),
-        ("28.2 Ω", D.RESISTANCE, 28.2, "Ω"),  # U+03A9 Greek capital omega
-        ("28.2 \u2126", D.RESISTANCE, 28.2, "Ω"),  # U+2126 ohm sign
-        ("28.2 ohm", D.RESISTANCE, 28.2, "Ω"),
-        ("28.2 ohms", D.RESISTANCE, 28.2, "Ω"),
+        ("47.5 Ω", D.RESISTANCE, 47.5, "Ω"),  # U+03A9 Greek capital omega
+        ("47.5 \u2126", D.RESISTANCE, 47.5, "Ω"),  # U+2126 ohm sign
+        ("47.5 ohm", D.RESISTANCE, 47.5, "Ω"),
+        ("47.5 ohms", D.RESISTANCE, 47.5, "Ω"),
         ("4.7 kΩ", D.RESISTANCE, 4.7e3, "kΩ"),
         ("4.7 kohm", D.RESISTANCE, 4.7e3, "kΩ"),
         ("250 MΩ", D.RESISTANCE, 250e6, "MΩ"),
@@ -43,9 +43,9 @@ GREEK_MU = "\u03bc"
         ("5.2 GΩ", D.RESISTANCE, 5.2e9, "GΩ"),
         ("220 pF", D.CAPACITANCE, 220e-12, "pF"),
         ("35 mm", D.LENGTH, 35e-3, "mm"),
-        (f"18.4 {MICRO_SIGN}F", D.CAPACITANCE, 18.4e-6, "µF"),
-        (f"18.4 {GREEK_MU}F", D.CAPACITANCE, 18.4e-6, "µF"),
-        ("18.4 uF", D.CAPACITANCE, 18.4e-6, "µF"),
+        (f"33.3 {MICRO_SIGN}F", D.CAPACITANCE, 33.3e-6, "µF"),
+        (f"33.3 {GREEK_MU}F", D.CAPACITANCE, 33.3e-6, "µF"),
+        ("33.3 uF", D.CAPACITANCE, 33.3e-6, "µF"),
         ("100 nF", D.CAPACITANCE, 100e-9, "nF"),
         ("50 Hz", D.FREQUENCY, 50.0, "Hz"),
         ("40 °C", D.TEMPERATURE, 40.0, "°C"),
@@ -130,11 +130,11 @@ def test_awg_only_where_an_area_is_expected():
 @pytest.mark.parametrize(
     ("text", "basis", "symbol"),
     [
-        ("10.4 A RMS", Basis.RMS, "A"),
-        ("10.4 A rms", Basis.RMS, "A"),
-        ("10.4 A true rms", Basis.RMS, "A"),
-        ("10.4 A avg", Basis.AVERAGE, "A"),
-        ("10.4 A average", Basis.AVERAGE, "A"),
+        ("6.3 A RMS", Basis.RMS, "A"),
+        ("6.3 A rms", Basis.RMS, "A"),
+        ("6.3 A true rms", Basis.RMS, "A"),
+        ("6.3 A avg", Basis.AVERAGE, "A"),
+        ("6.3 A average", Basis.AVERAGE, "A"),
         ("24 V d.c.", Basis.DC, "V"),
         ("24 V dc", Basis.DC, "V"),
         ("24 Vdc", Basis.DC, "V"),
