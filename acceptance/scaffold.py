@@ -43,6 +43,7 @@ def _blank(item: ChecklistItem) -> str:
 
 def _item_lines(item: ChecklistItem, machine: LoadedMachine) -> list[str]:
     survey = [p.id for p in machine.model.survey_points]
+    bonding = [p.id for p in machine.model.bonding_points]
     lines = [""]
     header = f"{item.title}" + (f" [{item.unit}]" if item.unit else "")
     flags = []
@@ -55,7 +56,7 @@ def _item_lines(item: ChecklistItem, machine: LoadedMachine) -> list[str]:
     lines += _comment(header, "    ")
     lines += _comment(f"Caution: {item.caution}" if item.caution else None, "    ")
     lines += _comment(item.guidance, "    ")
-    names = element_names(item.per, machine.model.nameplate, survey)
+    names = element_names(item.per, machine.model.nameplate, survey, bonding)
     mapping = bool(item.also_record)
     if item.per == "single":
         if mapping:

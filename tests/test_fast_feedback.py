@@ -70,6 +70,32 @@ def test_new_scaffold_once_named_loads_as_not_tested(make_job):
     assert {i.verdict for i in visit.items} <= {Verdict.NOT_TESTED, Verdict.NOT_APPLICABLE}
 
 
+def test_new_on_a_machine_with_a_baseline_and_signed_visits(tmp_path, capsys):
+    # README's own example: the demo's machines name a baseline visit and hold signature
+    # records, both of which name visits that `new` does not load.
+    job = tmp_path / "demo_job"
+    shutil.copytree(REPO / "demo_job", job)
+    for machine in ("compressor-1", "press-brake-1"):
+        assert main(["new", str(job), machine, "--kind", "periodic",
+                     "--date", "2026-12-01"]) == 0, capsys.readouterr().err
+
+
+def test_new_writes_a_blank_for_every_bonding_point(make_job):
+    machine = {"bonding_points": [
+        {"id": "frame", "name": "Machine frame", "material": "copper",
+         "cross_section": "2.5 mm²", "length": "3 m"},
+        {"id": "door", "name": "Guard door", "material": "copper",
+         "cross_section": "2.5 mm²", "length": "2 m"}],
+        "checklists": ["bonding"]}
+    root = make_job(machine=machine)
+    assert main(["new", str(root), "m1", "--kind", "periodic", "--date", "2026-12-01"]) == 0
+    text = (root / "machines" / "m1" / "visits" / "2026-12-01-periodic.yaml").read_text(
+        encoding="utf-8")
+    assert "no bonding point on this machine" not in text
+    assert "      frame:\n        value:      # Ω" in text
+    assert "      door:\n        value:      # Ω" in text
+
+
 def test_new_never_overwrites_without_saying_so(make_job, capsys):
     root = make_job()
     args = ["new", str(root), "m1", "--kind", "periodic", "--date", "2026-12-01"]

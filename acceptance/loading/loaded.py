@@ -36,8 +36,9 @@ class _UnreadRegister(dict[str, Instrument]):
     def __contains__(self, key: object) -> bool:
         return True
 
-_CONFIRM_TRUE = {"yes", "y", "done", "confirmed", "true"}
-_CONFIRM_FALSE = {"no", "n", "not done", "false"}
+# Exactly the words README.md documents for a confirmation, in any letter case.
+_CONFIRM_TRUE = {"yes"}
+_CONFIRM_FALSE = {"no"}
 _NOT_APPLICABLE = {"n/a", "na", "not applicable"}
 
 
@@ -115,7 +116,7 @@ def unit_dimension(unit: str) -> Dimension:
 
 
 def element_names(kind: str, nameplate: Nameplate, survey_ids: list[str],
-                  bonding_ids: list[str] | None = None) -> list[str | None]:
+                  bonding_ids: list[str]) -> list[str | None]:
     three = nameplate.phases == 3
     if kind == "single":
         return [None]
@@ -135,7 +136,7 @@ def element_names(kind: str, nameplate: Nameplate, survey_ids: list[str],
     if kind == "survey_point":
         return list(survey_ids)
     if kind == "bonding_point":
-        return list(bonding_ids or [])
+        return list(bonding_ids)
     raise ValueError(kind)  # pragma: no cover - guarded by the model's Literal
 
 
