@@ -151,6 +151,22 @@ def test_confirmation_that_is_not_yes_or_no(make_job):
     ]
 
 
+@pytest.mark.parametrize("written", ["done", "true", "Y", "confirmed", "n", "not done"])
+def test_confirmation_takes_only_the_documented_words(make_job, written):
+    # README: a confirmation is yes or no; any other word is refused with that advice.
+    visit = VISIT_HEAD + f"readings:\n  lockout:\n    energy_sources: {written}\n"
+    assert problems_of(make_job(machine=MACHINE_YAML, visit=visit)) == [
+        f"{VISIT}:7:5: readings.lockout.energy_sources: '{written}' is not a confirmation; "
+        "write yes or no"
+    ]
+
+
+@pytest.mark.parametrize("written", ["yes", "Yes", "NO"])
+def test_confirmation_in_any_letter_case(make_job, written):
+    visit = VISIT_HEAD + f"readings:\n  lockout:\n    energy_sources: {written}\n"
+    load_job(make_job(machine=MACHINE_YAML, visit=visit))  # no InputError
+
+
 def test_several_problems_across_files_all_reported_sorted(make_job):
     instruments = ("instruments:\n"
                    "  - {id: dmm-1, kind: multimeter, response: true-rms}\n"

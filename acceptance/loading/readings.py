@@ -35,8 +35,8 @@ from .validation import _got
 
 
 def _confirmation(raw: Any) -> bool | None:
-    if isinstance(raw, bool):
-        return raw
+    if isinstance(raw, bool):  # YAML's true/false: not the words a confirmation takes
+        raise UnitError(f"'{str(raw).lower()}' is not a confirmation; write yes or no")
     if isinstance(raw, str):
         lowered = raw.strip().lower()
         if lowered in _CONFIRM_TRUE:
