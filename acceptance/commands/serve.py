@@ -11,6 +11,7 @@ import argparse
 import html
 import json
 import shutil
+import signal
 import sys
 import tempfile
 import threading
@@ -131,39 +132,46 @@ class _Handler(SimpleHTTPRequestHandler):
         self.wfile.write(body)
 
 
+def _interrupt(_signum: int, _frame: object) -> None:
+    # SIGTERM (a service manager, `kill`) stops the server the way Ctrl-C does, so the
+    # temporary preview folder is removed either way.
+    raise KeyboardInterrupt
+
+
 def run(args: argparse.Namespace) -> int:
     temporary = args.output is None
     output = args.output or Path(tempfile.mkdtemp(prefix="acceptance-preview-")) / "site"
-    preview = _Preview(args.job, output, args.pdf)
-    preview.rebuild()
-    if not output.is_dir():
-        # Nothing good to serve yet: the first build itself failed. Keep watching anyway.
-        output.mkdir(parents=True, exist_ok=True)
-    handler = type("Handler", (_Handler,), {"preview": preview})
-    server = ThreadingHTTPServer(("127.0.0.1", args.port),
-                                 partial(handler, directory=str(output)))
-    print(f"serving http://127.0.0.1:{server.server_address[1]}/index.html "
-          "(Ctrl-C to stop)", flush=True)
-
+    signal.signal(signal.SIGTERM, _interrupt)
     stop = threading.Event()
-
-    def watch() -> None:
-        seen = preview.fingerprint()
-        while not stop.wait(args.interval):
-            current = preview.fingerprint()
-            if current != seen:
-                seen = current
-                preview.rebuild()
-
-    watcher = threading.Thread(target=watch, daemon=True)
-    watcher.start()
+    server: ThreadingHTTPServer | None = None
     try:
+        preview = _Preview(args.job, output, args.pdf)
+        preview.rebuild()
+        if not output.is_dir():
+            # Nothing good to serve yet: the first build itself failed. Keep watching anyway.
+            output.mkdir(parents=True, exist_ok=True)
+        handler = type("Handler", (_Handler,), {"preview": preview})
+        server = ThreadingHTTPServer(("127.0.0.1", args.port),
+                                     partial(handler, directory=str(output)))
+        print(f"serving http://127.0.0.1:{server.server_address[1]}/index.html "
+              "(Ctrl-C to stop)", flush=True)
+
+        def watch() -> None:
+            seen = preview.fingerprint()
+            while not stop.wait(args.interval):
+                current = preview.fingerprint()
+                if current != seen:
+                    seen = current
+                    preview.rebuild()
+
+        threading.Thread(target=watch, daemon=True).start()
         server.serve_forever()
     except KeyboardInterrupt:
         pass
     finally:
         stop.set()
-        server.server_close()
+        if server is not None:
+            server.server_close()
         if temporary:
             shutil.rmtree(output.parent, ignore_errors=True)
     return 0
