@@ -229,9 +229,10 @@ def _load_machines(root: Path, checklists: dict[str, LoadedChecklist],
             _check_parts(visit, machine, checklists, problems)
             _check_attachments(visit, machine.folder, problems)
             machine.visits.append(visit)
-        _load_signatures(machine, root, problems)
         machine.visits.sort(key=lambda v: (v.model.date, v.id))
-        _check_baseline(machine, problems)
+        if include_visits:  # signature records and the baseline name visits
+            _load_signatures(machine, root, problems)
+            _check_baseline(machine, problems)
         _check_compare_adjustments(machine, checklists, problems)
         machines.append(machine)
     return machines
