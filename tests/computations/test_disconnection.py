@@ -184,6 +184,7 @@ def test_curve_reproduces_a_power_law():
     points = [(current, k * current**-4) for current in (100.0, 200.0, 400.0)]
     ia = operating_current_from_curve(points, 0.4, basis="gG 32 A, maker's curve")
     assert ia.current == pytest.approx((k / 0.4) ** 0.25, rel=1e-12)
+    assert ia.current == pytest.approx(251.49, abs=5e-3)  # reference values §16
     assert ia.operating_time == 0.4
     assert ia.basis.startswith("gG 32 A, maker's curve: operates in 0.4 s")
 

@@ -33,7 +33,8 @@ def _fortescue(angles: tuple[float, float, float]) -> tuple[float, float]:
 
 
 def test_balanced_sets():
-    # phase sequence definition [P]: in L1-L2-L3, L2 lags L1 by 120° and L3 lags L2 by 120°
+    # reference values §3, phase sequence definition [P]: in L1-L2-L3, L2 lags L1 by 120°
+    # and L3 lags L2 by 120°
     positive = phase_sequence(0.0, -120.0, 120.0)
     assert (positive.sequence, positive.positive) == (POSITIVE_SEQUENCE, True)
     assert positive.displacements == (120.0, 120.0, 120.0)
@@ -107,8 +108,8 @@ def test_message_names_the_lags():
 @pytest.mark.parametrize(
     ("supply", "connection", "direction"),
     [
-        # IEC 60034-8:2007: U1, V1, W1 fed in the supply's time sequence → clockwise
-        # facing the drive-end shaft [M]
+        # reference values §3, IEC 60034-8:2007: U1, V1, W1 fed in the supply's time
+        # sequence → clockwise facing the drive-end shaft [M]
         ("L1-L2-L3", ("L1", "L2", "L3"), "clockwise"),
         ("L1-L2-L3", ("L2", "L3", "L1"), "clockwise"),  # a cyclic shift keeps the direction
         ("L1-L2-L3", ("L2", "L1", "L3"), "counter-clockwise"),  # swapping two lines reverses

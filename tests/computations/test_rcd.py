@@ -199,7 +199,7 @@ def test_trip_test_rejects_bad_input():
     assert str(caught.value) == "trip_times[1] -0.03 s must not be negative"
 
 
-# -------------------------------------------------------------------------- §16 TT electrode
+# -------------------------------------------------------------------------- §17 TT electrode
 
 
 @pytest.mark.parametrize(

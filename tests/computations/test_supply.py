@@ -218,7 +218,7 @@ def test_degenerate_triangle_is_complete_unbalance():
 @pytest.mark.parametrize(
     ("currents", "unbalance", "line"),
     [
-        # NEMA MG 1 14.36 definition applied to currents [S definition, P use]; worked by hand:
+        # reference values §4: NEMA MG 1 14.36 applied to currents [S definition, P use]; by hand:
         # average 48 A, largest deviation 2 A (L1 and L3 tie, the first is named) → 4.1667 %
         ((50.0, 48.0, 46.0), 2 / 48, "L1"),
         # a lost phase: average 13.33 A, L1 deviates by all of it → 100 %
