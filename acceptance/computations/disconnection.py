@@ -379,10 +379,11 @@ def cold_measurement_factor(allowance: ColdMeasurementAllowance | str) -> float:
     -----
     A fault heats the conductors, and their resistance rises with them, so a loop
     measured at ambient temperature with a small test current is compared with a
-    reduced limit. The 2/3 of IEC 60364-6 also covers the supply voltage being
-    below nominal during the fault; 0.8 is the rule of thumb of a national
-    guidance applied to its own tabulated maxima (which already carry Cmin 0.95);
-    local codes govern which one applies.
+    reduced limit. For copper, R(20 °C)/R(θ) = (234.5 + 20)/(234.5 + θ) is 0.836 at
+    the 70 °C of a thermoplastic-insulated conductor in service and 0.645 at the
+    160 °C it may reach in a fault, which is where the two factors sit [P]. The
+    0.8 is a national guidance's rule of thumb on its own tabulated maxima (which
+    already carry Cmin 0.95); local codes govern which one applies.
 
     References
     ----------

@@ -27,6 +27,7 @@ from acceptance.computations.disconnection import (
     operating_current_from_curve,
     prospective_fault_current,
 )
+from acceptance.computations.resistance import COPPER_234_5, resistance_at_temperature
 
 FLOAT_RELATIVE = 1e-12
 # Tabulated maxima quoted to two decimals: half a unit of the last decimal.
@@ -280,6 +281,18 @@ def test_cold_allowances(allowance, factor, status):
     check = loop_impedance_check(0.5, 230.0, 100.0, allowance=allowance)
     assert check.maximum_impedance == pytest.approx(factor * 2.3, rel=FLOAT_RELATIVE)
     assert check.allowance_status == status
+
+
+def test_allowances_sit_near_copper_resistance_ratios():
+    # Independent check [P]: R(20 °C)/R(θ) for copper, k = 234.5 (IEC 60228, reference values
+    # §1 [S]) is 0.836 at 70 °C (thermoplastic in service) and 0.645 at 160 °C (its fault
+    # limit); the 0.8 and 2/3 factors sit within 0.04 of those ratios.
+    in_service = 1.0 / resistance_at_temperature(1.0, 20.0, 70.0, COPPER_234_5)
+    in_fault = 1.0 / resistance_at_temperature(1.0, 20.0, 160.0, COPPER_234_5)
+    assert in_service == pytest.approx(0.836, abs=5e-4)
+    assert in_fault == pytest.approx(0.645, abs=5e-4)
+    assert abs(cold_measurement_factor("rule_of_thumb_0_8") - in_service) < 0.04
+    assert abs(cold_measurement_factor("two_thirds") - in_fault) < 0.04
 
 
 def test_rule_of_thumb_on_cmin_describes_both_factors():
