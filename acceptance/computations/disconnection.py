@@ -119,6 +119,11 @@ def cold_measurement_factor(allowance: ColdMeasurementAllowance | str) -> float:
     0.8 is a national guidance's rule of thumb on its own tabulated maxima (which
     already carry Cmin 0.95); local codes govern which one applies.
 
+    Editions: the 2/3 is recalled from IEC 60364-6:2016 Annex C, an informative
+    annex, and from IEC 60204-1:2016 Annex A; the 0.8 from BS 7671:2018 Appendix 3.
+    Later amendments of either have not been compared, so the record names the
+    allowance and its source, and the user confirms which text is in force.
+
     References
     ----------
     IEC 60364-6:2016, Annex C (informative) [M]; IEC 60204-1:2016, Annex A [M];
