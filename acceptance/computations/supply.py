@@ -8,6 +8,8 @@ Sources
   systems M).
 - NEMA MG 1, 14.36 and Figure 14-1 (definition of voltage unbalance; medium
   motor derating factor; not recommended above 5 %) [S; clause and figure M].
+  The same definition applied to the three line currents is the trade's
+  current unbalance [P].
 - IEC 61000-4-30 (negative-sequence unbalance from line-to-line magnitudes:
   β = ΣU⁴/(ΣU²)²) [formula M, checked in the tests against a phasor
   construction by symmetrical components].
@@ -23,11 +25,13 @@ from dataclasses import dataclass
 from itertools import pairwise
 
 from ._checks import finite as _finite
+from ._checks import non_negative as _non_negative
 from ._checks import positive as _positive
 from ._errors import ComputationError
 from .resistance import COPPER_234_5, ConductorConstant, resistance_at_temperature
 
 __all__ = [
+    "CurrentUnbalance",
     "DeratingFactor",
     "SequenceComponents",
     "SupplyWindow",
@@ -37,6 +41,7 @@ __all__ = [
     "VoltageUnbalance",
     "ansi_c84_1_window",
     "cable_voltage_drop",
+    "current_unbalance_nema",
     "iec_60204_1_frequency_window",
     "iec_60204_1_unbalance_limit",
     "iec_60204_1_voltage_window",
@@ -314,6 +319,66 @@ def voltage_unbalance(v_ab: float, v_bc: float, v_ca: float) -> VoltageUnbalance
         sequence=sequence.unbalance,
         positive_sequence=sequence.positive_sequence,
         negative_sequence=sequence.negative_sequence,
+    )
+
+
+@dataclass(frozen=True)
+class CurrentUnbalance:
+    """Current unbalance between the three lines by the NEMA form of the definition."""
+
+    unbalance: float
+    """max |Ii − Iavg| / Iavg [unitless]"""
+    average_current: float
+    """[A]"""
+    largest_deviation: float
+    """max |Ii − Iavg| [A]"""
+    line: str
+    """The line that deviates most: ``"L1"``, ``"L2"`` or ``"L3"`` (the first on a tie)"""
+
+
+def current_unbalance_nema(i_l1: float, i_l2: float, i_l3: float) -> CurrentUnbalance:
+    """Current unbalance between phases: largest deviation from the average over the average.
+
+    Parameters
+    ----------
+    i_l1, i_l2, i_l3 : float
+        Line r.m.s. currents, read together under the same load [A]. A line that
+        carries nothing (a lost phase) reads 0.
+
+    Returns
+    -------
+    CurrentUnbalance
+
+    Notes
+    -----
+    u = max|Ii − Iavg| / Iavg, the NEMA MG 1 definition of voltage unbalance
+    applied to currents. An induction motor's current unbalance is several times
+    the voltage unbalance that causes it, so the two are reported side by side;
+    a current unbalance far above what the voltages explain points at the motor
+    or its connections rather than the supply [P].
+
+    References
+    ----------
+    NEMA MG 1, 14.36 (the definition, written for voltages) [S]; its use for
+    currents [P].
+    """
+    currents = (
+        _non_negative("i_l1", i_l1, "A"),
+        _non_negative("i_l2", i_l2, "A"),
+        _non_negative("i_l3", i_l3, "A"),
+    )
+    average = sum(currents) / 3.0
+    if average == 0.0:
+        raise ComputationError(
+            "i_l1, i_l2 and i_l3 are all 0 A: current unbalance needs the machine running"
+        )
+    deviations = [abs(current - average) for current in currents]
+    largest = max(deviations)
+    return CurrentUnbalance(
+        unbalance=largest / average,
+        average_current=average,
+        largest_deviation=largest,
+        line=f"L{deviations.index(largest) + 1}",
     )
 
 

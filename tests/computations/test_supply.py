@@ -22,6 +22,7 @@ from acceptance.computations.resistance import (
 from acceptance.computations.supply import (
     ansi_c84_1_window,
     cable_voltage_drop,
+    current_unbalance_nema,
     iec_60204_1_frequency_window,
     iec_60204_1_unbalance_limit,
     iec_60204_1_voltage_window,
@@ -212,6 +213,55 @@ def test_unbalance_rejects_impossible_readings(function, voltages, message):
 def test_degenerate_triangle_is_complete_unbalance():
     # 200 = 100 + 100: the line phasors are collinear, |U1| = |U2|
     assert voltage_unbalance_sequence(100.0, 100.0, 200.0).unbalance == pytest.approx(1.0)
+
+
+@pytest.mark.parametrize(
+    ("currents", "unbalance", "line"),
+    [
+        # reference values §4: NEMA MG 1 14.36 applied to currents [S definition, P use]; by hand:
+        # average 48 A, largest deviation 2 A (L1 and L3 tie, the first is named) → 4.1667 %
+        ((50.0, 48.0, 46.0), 2 / 48, "L1"),
+        # a lost phase: average 13.33 A, L1 deviates by all of it → 100 %
+        ((0.0, 20.0, 20.0), 1.0, "L1"),
+        ((10.2, 10.2, 11.1), 0.6 / 10.5, "L3"),
+    ],
+)
+def test_current_unbalance(currents, unbalance, line):
+    result = current_unbalance_nema(*currents)
+    assert result.unbalance == pytest.approx(unbalance, rel=1e-12)
+    assert result.line == line
+
+
+def test_current_and_voltage_unbalance_share_the_definition():
+    # the §4 example's figures read as amperes give the voltage unbalance's 1.961 % [S]
+    currents = current_unbalance_nema(460.0, 467.0, 450.0)
+    assert currents.unbalance == pytest.approx(voltage_unbalance_nema(460.0, 467.0, 450.0),
+                                               rel=FLOAT_RELATIVE)
+    assert currents.unbalance == pytest.approx(0.01961, abs=THREE_DECIMAL_PERCENT)
+    assert currents.average_current == pytest.approx(459.0, rel=FLOAT_RELATIVE)
+    assert currents.largest_deviation == pytest.approx(9.0, rel=FLOAT_RELATIVE)
+
+
+@given(st.floats(min_value=0.01, max_value=1e4))
+def test_equal_currents_have_no_unbalance(current):
+    assert current_unbalance_nema(current, current, current).unbalance == pytest.approx(
+        0.0, abs=1e-15
+    )
+
+
+@pytest.mark.parametrize(
+    ("currents", "message"),
+    [
+        ((0.0, 0.0, 0.0), "i_l1, i_l2 and i_l3 are all 0 A: current unbalance needs the "
+         "machine running"),
+        ((10.0, -10.0, 10.0), "i_l2 -10 A must not be negative"),
+        ((10.0, 10.0, math.nan), "i_l3 nan A must be a finite number"),
+    ],
+)
+def test_current_unbalance_rejects_bad_input(currents, message):
+    with pytest.raises(ComputationError) as caught:
+        current_unbalance_nema(*currents)
+    assert str(caught.value) == message
 
 
 def test_iec_60204_1_unbalance_limit():
