@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import dataclasses
 from collections import Counter
+from collections.abc import Sequence
 
 from .. import __version__
 from ..history import (
@@ -18,7 +19,14 @@ from ..history import (
     trend_series,
 )
 from ..loading import Job, LoadedChecklist, LoadedMachine, LoadedVisit, Reading, element_names
-from ..model import ChecklistItem, LimitOverride
+from ..model import (
+    BondingPoint,
+    CapacitorSpec,
+    ChecklistItem,
+    LimitOverride,
+    SurveyPoint,
+    WindingSpec,
+)
 from ..results import (
     ChecklistResult,
     CheckResult,
@@ -71,11 +79,17 @@ def _applies(item: ChecklistItem, machine: LoadedMachine) -> bool:
     }[item.applies_when]
 
 
-def _element_spec(item: ChecklistItem, machine: LoadedMachine, element: str | None):  # noqa: ANN202
+ElementSpec = WindingSpec | CapacitorSpec | SurveyPoint | BondingPoint
+
+
+def _element_spec(item: ChecklistItem, machine: LoadedMachine,
+                  element: str | None) -> ElementSpec | None:
     nameplate = machine.model.nameplate
-    pool = {"winding": nameplate.windings, "capacitor": nameplate.capacitors,
-            "survey_point": machine.model.survey_points,
-            "bonding_point": machine.model.bonding_points}.get(item.per, [])
+    pools: dict[str, Sequence[ElementSpec]] = {
+        "winding": nameplate.windings, "capacitor": nameplate.capacitors,
+        "survey_point": machine.model.survey_points,
+        "bonding_point": machine.model.bonding_points}
+    pool = pools.get(item.per, ())
     return next((entry for entry in pool if entry.id == element), None)
 
 
