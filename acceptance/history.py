@@ -31,10 +31,14 @@ from dataclasses import dataclass, replace
 from .results import (
     Change,
     ChangeClass,
+    CompareRule,
     ElementResult,
     ItemResult,
     MachineResult,
     PartReplacement,
+    TrendPoint,
+    TrendSeries,
+    TrendTrace,
     VisitResult,
 )
 from .units import Dimension, UnitError, format_value, parse_quantity
@@ -49,6 +53,7 @@ __all__ = [
     "classify_change",
     "compare_rule",
     "compare_visits",
+    "visit_comparison",
     "comparison_to_json",
     "effective_element",
     "part_behaviour",
@@ -63,36 +68,6 @@ _MINUS = "\u2212"
 _BASIS_PHRASE = {"rms": "RMS", "average": "average-responding", "dc": "d.c.", "peak": "peak"}
 # Relative slack on the thresholds: a change written exactly on a threshold reaches it.
 _SLACK = 1e-9
-
-
-@dataclass(frozen=True)
-class CompareRule:
-    """An item's comparison, resolved from its checklist and the machine file.
-
-    ``watch`` and ``act`` are in ``threshold_unit``: ``%`` of the baseline value when
-    ``relative``, else an amount in the compared value's unit (e.g. ``K``).
-    """
-
-    quantity: str  # "corrected" or "reading"
-    watch: float
-    act: float
-    relative: bool
-    threshold_unit: str
-    direction: str = "both"  # "both", "up" or "down"
-    check: str | None = None
-    step: str | None = None
-    note_up: str | None = None
-    note_down: str | None = None
-    normalise_to_voltage: str | None = None
-    source: str = "common practice (no single published source)"
-    adjusted: str | None = None  # the machine file's reason, when it changed the checklist's
-
-    def describe(self) -> str:
-        """The thresholds in one phrase, e.g. ``watch ≥ 5 %, act ≥ 10 %, either direction``."""
-        way = {"both": "either direction", "up": "rises only", "down": "falls only"}[
-            self.direction]
-        return (f"watch ≥ {self.watch:g} {self.threshold_unit}, "
-                f"act ≥ {self.act:g} {self.threshold_unit}, {way}")
 
 
 def compare_rule(spec: object, adjustment: object | None = None) -> CompareRule:
@@ -480,6 +455,19 @@ def compare_visits(machine_result: MachineResult, baseline: VisitResult | str,
                            changes=_changes(base, later))
 
 
+def visit_comparison(machine_result: MachineResult, baseline: VisitResult | str,
+               visit: VisitResult | str) -> VisitComparison:
+    """``visit`` against ``baseline``: the changes evaluation attached to the visit when it
+    compared the two, else :func:`compare_visits` (another baseline, or an earlier visit)."""
+    base = _visit(machine_result, baseline)
+    later = _visit(machine_result, visit)
+    if later.baseline != base.id:
+        return compare_visits(machine_result, base, later)
+    return VisitComparison(machine=machine_result.id, baseline=base.id, visit=later.id,
+                           baseline_date=base.date, visit_date=later.date,
+                           changes=later.changes)
+
+
 def part_behaviour(machine_result: MachineResult, visit: VisitResult | str,
                    elements: dict[str, str] | None = None) -> tuple[PartReplacement, ...]:
     """Each part replaced on ``visit`` with its element's values before and after the swap.
@@ -513,42 +501,13 @@ def part_behaviour(machine_result: MachineResult, visit: VisitResult | str,
             # The cause of this change is known (the swap): no suggestion of another.
             behaviour.extend(replace(c, note=None) for c in (own or changes))
             before_label = "as found" if re_measured else before_visit.id
-        found.append(replace(part, before=before_label, behaviour=tuple(behaviour)))
+        found.append(replace(part, before=before_label, behaviour=tuple(behaviour),
+                             steady=all(c.classification is ChangeClass.STEADY
+                                        for c in behaviour)))
     return tuple(found)
 
 
 # ------------------------------------------------------------------ trends
-
-
-@dataclass(frozen=True)
-class TrendPoint:
-    visit: str
-    date: _dt.date
-    value: float  # in the series' base unit
-    text: str
-    classification: ChangeClass | None  # None for the baseline and visits before it
-    is_baseline: bool = False
-
-
-@dataclass(frozen=True)
-class TrendTrace:
-    element: str | None
-    points: tuple[TrendPoint, ...]
-
-
-@dataclass(frozen=True)
-class TrendSeries:
-    """One compared item over every visit: a trace per element, the limits and the baseline."""
-
-    item: str
-    title: str
-    quantity: str
-    unit: str  # base unit of the values
-    display_unit: str | None
-    baseline: str
-    traces: tuple[TrendTrace, ...]
-    limit_lower: float | None = None
-    limit_upper: float | None = None
 
 
 def _limits(item: ItemResult, rule: CompareRule, unit: str,
@@ -569,6 +528,16 @@ def _limits(item: ItemResult, rule: CompareRule, unit: str,
     return bands.pop() if len(bands) == 1 else (None, None)
 
 
+def _evaluated_change(visit: VisitResult, base: VisitResult, item: ItemResult,
+                      element: str | None, rule: CompareRule) -> Change | None:
+    """The change evaluation attached to ``visit``; computed only for a visit it did not
+    compare with ``base``."""
+    if visit.baseline == base.id:
+        return next((c for c in visit.changes if c.item == item.key and c.element == element),
+                    None)
+    return _change(item.key, item.title, element, rule, base, visit, item.unit)
+
+
 def trend_series(machine_result: MachineResult) -> tuple[TrendSeries, ...]:
     """Every compared item of a machine over its visits, for trend plots.
 
@@ -581,7 +550,8 @@ def trend_series(machine_result: MachineResult) -> tuple[TrendSeries, ...]:
     base = _visit(machine_result, machine_result.baseline)
     series: list[TrendSeries] = []
     for item in _compared_items(*machine_result.visits):
-        rule: CompareRule = item.compare
+        rule = item.compare
+        assert rule is not None  # _compared_items keeps only the compared items
         traces: list[TrendTrace] = []
         unit, quantity = "", ""
         order = [v.id for v in machine_result.visits]
@@ -599,7 +569,7 @@ def trend_series(machine_result: MachineResult) -> tuple[TrendSeries, ...]:
                                                  _format(value.value, value.unit, item.unit),
                                                  None))
                     continue
-                change = _change(item.key, item.title, element, rule, base, visit, item.unit)
+                change = _evaluated_change(visit, base, item, element, rule)
                 if (change is None or change.classification is ChangeClass.NOT_COMPARABLE
                         or change.value is None):
                     continue

@@ -12,7 +12,7 @@ from __future__ import annotations
 import datetime as _dt
 import re
 from enum import Enum
-from typing import Annotated, Any, Literal
+from typing import TYPE_CHECKING, Annotated, Any, Literal
 
 from pydantic import (
     BaseModel,
@@ -52,17 +52,30 @@ def _quantity(*dimensions: Dimension, example: str) -> Any:
     ]
 
 
-Voltage = _quantity(Dimension.VOLTAGE, example="230 V")
-Current = _quantity(Dimension.CURRENT, example="9.5 A")
-Resistance = _quantity(Dimension.RESISTANCE, example="34.0 Ω")
-Capacitance = _quantity(Dimension.CAPACITANCE, example="1000 µF")
-Frequency = _quantity(Dimension.FREQUENCY, example="50 Hz")
-Temperature = _quantity(Dimension.TEMPERATURE, example="20 °C")
-TemperatureDifference = _quantity(Dimension.TEMPERATURE_DIFFERENCE, example="80 K")
-Ratio = _quantity(Dimension.RATIO, example="5 %")
-Length = _quantity(Dimension.LENGTH, example="18 m")
-Area = _quantity(Dimension.AREA, example="2.5 mm²")
-Power = _quantity(Dimension.POWER, example="2.2 kW")
+if TYPE_CHECKING:  # a type checker sees the values the validators return
+    Voltage = Quantity
+    Current = Quantity
+    Resistance = Quantity
+    Capacitance = Quantity
+    Frequency = Quantity
+    Temperature = Quantity
+    TemperatureDifference = Quantity
+    Ratio = Quantity
+    Length = Quantity
+    Area = Quantity
+    Power = Quantity
+else:
+    Voltage = _quantity(Dimension.VOLTAGE, example="230 V")
+    Current = _quantity(Dimension.CURRENT, example="9.5 A")
+    Resistance = _quantity(Dimension.RESISTANCE, example="34.0 Ω")
+    Capacitance = _quantity(Dimension.CAPACITANCE, example="1000 µF")
+    Frequency = _quantity(Dimension.FREQUENCY, example="50 Hz")
+    Temperature = _quantity(Dimension.TEMPERATURE, example="20 °C")
+    TemperatureDifference = _quantity(Dimension.TEMPERATURE_DIFFERENCE, example="80 K")
+    Ratio = _quantity(Dimension.RATIO, example="5 %")
+    Length = _quantity(Dimension.LENGTH, example="18 m")
+    Area = _quantity(Dimension.AREA, example="2.5 mm²")
+    Power = _quantity(Dimension.POWER, example="2.2 kW")
 
 _DATE_RE = re.compile(r"^\d{4}-\d{2}-\d{2}$")
 

@@ -28,7 +28,7 @@ from .evaluation import evaluate_job
 from .loading import Job, load_job
 from .rendering.html import make_environment
 from .resources import templates_dir
-from .results import RESULTS_SCHEMA, JobResult, VisitResult, VisitState, to_json
+from .results import RESULTS_SCHEMA, JobResult, VisitResult, to_json
 
 if TYPE_CHECKING:  # the PDF stack loads only when a build renders PDFs
     from .rendering.package import KeptPart
@@ -66,60 +66,14 @@ class BuildReport:
     result: JobResult | None = None
 
 
-def _deficiencies(result: JobResult) -> list[dict[str, object]]:
-    rows: list[dict[str, object]] = []
-    for machine in result.machines:
-        for visit in machine.visits:
-            for item in visit.items:
-                for element in item.elements:
-                    verdict = element.verdict
-                    if not verdict.is_open:
-                        continue
-                    if not item.required and verdict.value == "not tested":
-                        continue
-                    severity = ("safety-critical" if item.safety_critical and verdict.is_failure
-                                else "blocks acceptance" if verdict.is_failure or item.required
-                                else "advisory")
-                    rows.append({"machine": machine.id, "visit": visit.id, "item": item.key,
-                                 "title": item.title, "element": element.element,
-                                 "reading": element.reading, "verdict": verdict,
-                                 "severity": severity,
-                                 "anchor": f"{item.checklist}-{item.id}"})
-    return rows
-
-
 def plan_site(result: JobResult) -> list[SitePage]:
     """Every page with its template and data; links between them are relative."""
-    open_counts = {
-        f"{m.id}/{v.id}": sum(1 for i in v.items if i.verdict.is_open and i.required)
-        for m in result.machines for v in m.visits}
-    state_counts = [(state, sum(1 for v in result.visits if v.state is state))
-                    for state in VisitState]
-    from .computations.uncertainty import calibration_state
-    from .model import parse_date
-
-    register = {i["id"]: i for i in result.instruments}
-    usage: dict[str, list[dict[str, object]]] = {i["id"]: [] for i in result.instruments}
-    for machine in result.machines:
-        for visit in machine.visits:
-            used = sorted({e.instrument for item in visit.items for e in item.elements
-                           if e.instrument})
-            for instrument in used:
-                entry = register.get(instrument, {})
-                state = calibration_state(
-                    parse_date(entry["calibrated"]) if entry.get("calibrated") else None,
-                    parse_date(entry["calibration_due"]) if entry.get("calibration_due")
-                    else None, visit.date)
-                usage.setdefault(instrument, []).append(
-                    {"machine": machine.id, "visit": visit.id, "state": state.phrase,
-                     "valid": "ok" if state.valid else "lapsed"})
     pages = [
         SitePage("index.html", "index.html",
-                 {"open_counts": open_counts, "state_counts": state_counts,
-                  "visit_total": len(result.visits), "results_schema": RESULTS_SCHEMA}),
-        SitePage("instruments.html", "instruments.html", {"usage": usage}),
+                 {"visit_total": len(result.visits), "results_schema": RESULTS_SCHEMA}),
+        SitePage("instruments.html", "instruments.html", {}),
         SitePage("deficiencies.html", "deficiencies.html",
-                 {"deficiencies": _deficiencies(result)}),
+                 {"deficiencies": result.deficiencies}),
     ]
     for machine in result.machines:
         base = f"machines/{machine.id}"
@@ -319,7 +273,7 @@ def _review_files(result: JobResult, signatures: dict[str, object]) -> dict[str,
     )
 
     return {INDEX_DATA_NAME: index_data_script(result).encode(),
-            DEFICIENCIES_CSV_NAME: deficiencies_csv(_deficiencies(result), result,
+            DEFICIENCIES_CSV_NAME: deficiencies_csv(result.deficiencies, result,
                                                     signatures).encode()}
 
 

@@ -1,21 +1,30 @@
 """Results of evaluation: verdicts with every value they rest on.
 
-These objects are computed once, in :mod:`acceptance.evaluation`, and only
-displayed afterwards (terminal, HTML, PDF, JSON). ``to_json`` writes the
-versioned results schema documented in README.md.
+These objects are computed once, in :mod:`acceptance.evaluation` (and
+:mod:`acceptance.history` for changes and trends), and only displayed afterwards
+(terminal, HTML, PDF, JSON): every fact an output shows is a field here, decided
+there. Each verdict and state has one word and one mark, defined here and read by
+the terminal, the pages and the index filters. ``to_json`` writes the versioned
+results schema documented in README.md with one encoder per record.
 """
 
 from __future__ import annotations
 
 import datetime as _dt
+from collections.abc import Iterable
 from dataclasses import dataclass, field
 from enum import Enum
-from typing import Any
+from typing import TYPE_CHECKING, Any
+
+if TYPE_CHECKING:  # numpy stays out of check's start-up unless a capture is attached
+    from .captures import CaptureAnalysis
 
 __all__ = [
-    "RESULTS_SCHEMA", "Change", "ChangeClass", "CheckResult", "ElementResult", "ItemResult",
-    "ChecklistResult", "MachineResult", "JobResult", "PartReplacement", "Step", "Verdict",
-    "VisitResult", "VisitState", "machine_to_json", "to_json", "worst",
+    "RESULTS_SCHEMA", "Change", "ChangeClass", "CheckResult", "CompareRule", "Deficiency",
+    "ElementResult", "Instrument", "InstrumentUse", "ItemResult", "ChecklistResult",
+    "MachineResult", "JobResult", "NameplateRow", "Override", "PartReplacement", "Severity",
+    "SignOff", "Step", "TrendPoint", "TrendSeries", "TrendTrace", "Verdict", "VisitResult",
+    "VisitState", "count_states", "machine_to_json", "to_json", "worst",
 ]
 
 RESULTS_SCHEMA = "acceptance-results/1"
@@ -47,6 +56,29 @@ class Verdict(str, Enum):
     def slug(self) -> str:
         return self.value.replace(" ", "-")
 
+    @property
+    def word(self) -> str:
+        return self.value
+
+    @property
+    def mark(self) -> str:
+        """The shape shown before the word, so a record reads in grey-scale print."""
+        return _VERDICT_MARKS[self]
+
+
+# Each verdict has a word and a shape, so a record reads in grey-scale print and for readers
+# who do not tell colours apart (never colour alone). A conditional statement is the plain
+# verdict's shape with a question mark: the decision sits inside the guard band (ILAC-G8).
+_VERDICT_MARKS: dict[Verdict, str] = {
+    Verdict.PASS: "✓",
+    Verdict.CONDITIONAL_PASS: "✓?",
+    Verdict.CONDITIONAL_FAIL: "✗?",
+    Verdict.FAIL: "✗",
+    Verdict.UNDETERMINED: "?",
+    Verdict.NOT_TESTED: "○",
+    Verdict.NOT_APPLICABLE: "–",
+    Verdict.RECORDED: "·",
+}
 
 # Worst first: a list of verdicts rolls up to the earliest that occurs.
 _ORDER = [Verdict.FAIL, Verdict.CONDITIONAL_FAIL, Verdict.UNDETERMINED, Verdict.NOT_TESTED,
@@ -70,6 +102,36 @@ class VisitState(str, Enum):
     @property
     def slug(self) -> str:
         return self.value.replace(" ", "-")
+
+    @property
+    def word(self) -> str:
+        return self.value
+
+    @property
+    def mark(self) -> str:
+        return _STATE_MARKS[self]
+
+
+_STATE_MARKS: dict[VisitState, str] = {
+    VisitState.PASS: "✓",
+    VisitState.PASS_WITH_DEFICIENCIES: "!",
+    VisitState.INCOMPLETE: "○",
+    VisitState.FAIL: "✗",
+}
+
+
+def count_states(states: Iterable[VisitState]) -> tuple[tuple[VisitState, int], ...]:
+    """How many visits are in each state, every state in its order (zeros included)."""
+    listed = list(states)
+    return tuple((state, listed.count(state)) for state in VisitState)
+
+
+class Severity(str, Enum):
+    """How much an open point weighs on handover."""
+
+    SAFETY_CRITICAL = "safety-critical"  # a safety-critical item failed
+    BLOCKS_ACCEPTANCE = "blocks acceptance"  # a failure, or a required item still open
+    ADVISORY = "advisory"  # open, but neither required nor failed
 
 
 @dataclass(frozen=True)
@@ -119,9 +181,39 @@ class ElementResult:
     line: int | None = None
     uncertainty: str | None = None  # "U = 1.6 V (k = 2), from …", or why it is unknown
     findings: tuple[str, ...] = ()  # about the instrument: category, response, calibration
-    capture: Any = None  # CaptureAnalysis of an attached scope capture (JSON: its own schema)
+    capture: CaptureAnalysis | None = None  # an attached scope capture (JSON: its own schema)
     # Basis of the reading as written ('RMS', 'avg', 'd.c.') or else from the instrument.
     effective_basis: str | None = None
+
+
+@dataclass(frozen=True)
+class CompareRule:
+    """An item's comparison, resolved from its checklist and the machine file.
+
+    ``watch`` and ``act`` are in ``threshold_unit``: ``%`` of the baseline value when
+    ``relative``, else an amount in the compared value's unit (e.g. ``K``).
+    """
+
+    quantity: str  # "corrected" or "reading"
+    watch: float
+    act: float
+    relative: bool
+    threshold_unit: str
+    direction: str = "both"  # "both", "up" or "down"
+    check: str | None = None
+    step: str | None = None
+    note_up: str | None = None
+    note_down: str | None = None
+    normalise_to_voltage: str | None = None
+    source: str = "common practice (no single published source)"
+    adjusted: str | None = None  # the machine file's reason, when it changed the checklist's
+
+    def describe(self) -> str:
+        """The thresholds in one phrase, e.g. ``watch ≥ 5 %, act ≥ 10 %, either direction``."""
+        way = {"both": "either direction", "up": "rises only", "down": "falls only"}[
+            self.direction]
+        return (f"watch ≥ {self.watch:g} {self.threshold_unit}, "
+                f"act ≥ {self.act:g} {self.threshold_unit}, {way}")
 
 
 @dataclass(frozen=True)
@@ -136,7 +228,7 @@ class ItemResult:
     elements: tuple[ElementResult, ...]
     guidance: str | None
     caution: str | None
-    compare: Any = None  # history.CompareRule: how later visits compare with the baseline
+    compare: CompareRule | None = None  # how later visits compare with the baseline
 
     @property
     def key(self) -> str:
@@ -204,6 +296,48 @@ class PartReplacement:
     items: tuple[str, ...]
     before: str | None = None  # "as found" or the id of the visit before
     behaviour: tuple[Change, ...] = ()
+    steady: bool = False  # every value of behaviour is steady: the swap changed nothing seen
+
+
+@dataclass(frozen=True)
+class SignOff:
+    """One line of a visit's sign-off, as the visit file gives it."""
+
+    name: str
+    role: str
+    date: str  # ISO 8601
+    statement: str = ""
+
+
+@dataclass(frozen=True)
+class Deficiency:
+    """An open point of a visit: an element that failed, could not be decided or is missing."""
+
+    machine: str
+    visit: str  # the visit that raised it
+    item: str  # checklist.item
+    title: str
+    element: str | None
+    reading: str | None
+    verdict: Verdict
+    severity: Severity
+    anchor: str  # the item's anchor on the visit's page
+
+
+@dataclass(frozen=True)
+class InstrumentUse:
+    """An instrument used on a visit, with its calibration state on the visit's date."""
+
+    machine: str
+    visit: str
+    instrument: str
+    state: str  # the calibration state in words, e.g. "in calibration"
+    valid: bool  # False when the calibration had lapsed (or was never recorded)
+
+    @property
+    def validity(self) -> str:
+        """``ok`` or ``lapsed``: the word the pages' style keys on."""
+        return "ok" if self.valid else "lapsed"
 
 
 @dataclass(frozen=True)
@@ -219,17 +353,57 @@ class VisitResult:
     conditions: dict[str, str]
     notes: str | None
     attachments: tuple[tuple[str, str], ...]
-    sign_off: tuple[dict[str, str], ...]
+    sign_off: tuple[SignOff, ...]
     source_file: str
     baseline: str | None = None  # id of the visit this one is compared with
     changes: tuple[Change, ...] = ()
     as_left: tuple[ItemResult, ...] = ()  # items re-measured after adjustment or repair
     as_found_state: VisitState | None = None  # state before adjustment, when as_left exists
     parts_replaced: tuple[PartReplacement, ...] = ()
+    open_required: int = 0  # required items whose verdict is open (as found)
+    deficiencies: tuple[Deficiency, ...] = ()  # open points as found, in checklist order
+    instrument_uses: tuple[InstrumentUse, ...] = ()  # by instrument id
 
     @property
     def items(self) -> list[ItemResult]:
         return [item for checklist in self.checklists for item in checklist.items]
+
+
+@dataclass(frozen=True)
+class NameplateRow:
+    label: str  # e.g. "rated voltage" or "winding: main"
+    text: str
+
+
+@dataclass(frozen=True)
+class TrendPoint:
+    visit: str
+    date: _dt.date
+    value: float  # in the series' base unit
+    text: str
+    classification: ChangeClass | None  # None for the baseline and visits before it
+    is_baseline: bool = False
+
+
+@dataclass(frozen=True)
+class TrendTrace:
+    element: str | None
+    points: tuple[TrendPoint, ...]
+
+
+@dataclass(frozen=True)
+class TrendSeries:
+    """One compared item over every visit: a trace per element, the limits and the baseline."""
+
+    item: str
+    title: str
+    quantity: str
+    unit: str  # base unit of the values
+    display_unit: str | None
+    baseline: str
+    traces: tuple[TrendTrace, ...]
+    limit_lower: float | None = None
+    limit_upper: float | None = None
 
 
 @dataclass(frozen=True)
@@ -238,13 +412,44 @@ class MachineResult:
     name: str
     kind: str
     area: str | None
-    nameplate: dict[str, Any]
+    nameplate: tuple[NameplateRow, ...]
     visits: tuple[VisitResult, ...]
     baseline: str | None = None  # id of the visit later visits are compared with
+    trends: tuple[TrendSeries, ...] = ()  # each compared item over the visits (not in JSON)
 
     @property
     def latest(self) -> VisitResult | None:
         return self.visits[-1] if self.visits else None
+
+
+@dataclass(frozen=True)
+class Instrument:
+    """An entry of the job's instrument register, with the visits that used it."""
+
+    id: str
+    kind: str
+    model: str
+    serial: str
+    response: str
+    category: str
+    calibrated: _dt.date | None
+    calibration_due: _dt.date | None
+    functions: tuple[str, ...]  # "measures, range …: accuracy, resolution …"
+    # Site-wide facts (not in JSON, whose job head must not depend on which machines
+    # were evaluated): every use in machine and visit order, and how many were lapsed.
+    uses: tuple[InstrumentUse, ...] = ()
+    lapsed_uses: int = 0
+
+
+@dataclass(frozen=True)
+class Override:
+    """A job rule replacing a checklist's default limit."""
+
+    item: str
+    check: str
+    reason: str
+    source: str
+    params: str  # "name = value, …"
 
 
 @dataclass(frozen=True)
@@ -254,46 +459,199 @@ class JobResult:
     contractor: str
     reference_temperature: str
     standards: tuple[str, ...]
-    overrides: tuple[dict[str, str], ...]
+    overrides: tuple[Override, ...]
     machines: tuple[MachineResult, ...]
     tool_version: str
-    instruments: tuple[dict[str, Any], ...] = field(default=())
+    instruments: tuple[Instrument, ...] = field(default=())
     decision_rule: str = "simple acceptance"
     coverage_factor: float = 2.0
+    # How many visits are in each state, every state listed (not in JSON, see Instrument).
+    state_counts: tuple[tuple[VisitState, int], ...] = ()
 
     @property
     def visits(self) -> list[VisitResult]:
         return [visit for machine in self.machines for visit in machine.visits]
 
-
-def _plain(value: Any) -> Any:
-    if type(value).__name__ == "CaptureAnalysis":
-        from .captures import capture_to_json
-
-        return capture_to_json(value)
-    if isinstance(value, Enum):
-        return value.value
-    if isinstance(value, _dt.date):
-        return value.isoformat()
-    if isinstance(value, dict):
-        return {str(k): _plain(v) for k, v in value.items()}
-    if isinstance(value, list | tuple):
-        return [_plain(v) for v in value]
-    if hasattr(value, "__dataclass_fields__"):
-        return {name: _plain(getattr(value, name)) for name in value.__dataclass_fields__}
-    return value
+    @property
+    def deficiencies(self) -> list[Deficiency]:
+        """Every visit's open points, in machine and visit order."""
+        return [d for visit in self.visits for d in visit.deficiencies]
 
 
-def machine_to_json(machine: MachineResult) -> dict[str, Any]:
+# ------------------------------------------------------------------ JSON
+# One encoder per record; the keys and their order are the schema (README, "Results file").
+
+Json = dict[str, Any]
+
+
+def _date(value: _dt.date | None) -> str | None:
+    return value.isoformat() if value is not None else None
+
+
+def step_to_json(step: Step) -> Json:
+    return {"label": step.label, "text": step.text, "value": step.value, "unit": step.unit,
+            "formula": step.formula}
+
+
+def check_to_json(check: CheckResult) -> Json:
+    return {
+        "id": check.id, "rule": check.rule, "verdict": check.verdict.value,
+        "limit": check.limit, "source": check.source,
+        "steps": [step_to_json(s) for s in check.steps], "message": check.message,
+        "override": check.override, "compared": check.compared, "decision": check.decision,
+        "conformance": check.conformance, "compared_value": check.compared_value,
+        "compared_unit": check.compared_unit, "limit_lower": check.limit_lower,
+        "limit_upper": check.limit_upper,
+    }
+
+
+def _capture_to_json(capture: CaptureAnalysis | None) -> Json | None:
+    if capture is None:
+        return None
+    from .captures import capture_to_json  # numpy only when a capture is attached
+
+    return capture_to_json(capture)
+
+
+def element_to_json(element: ElementResult) -> Json:
+    return {
+        "element": element.element, "verdict": element.verdict.value,
+        "reading": element.reading, "value": element.value, "unit": element.unit,
+        "basis": element.basis, "instrument": element.instrument,
+        "extras": dict(element.extras), "note": element.note,
+        "checks": [check_to_json(c) for c in element.checks], "line": element.line,
+        "uncertainty": element.uncertainty, "findings": list(element.findings),
+        "capture": _capture_to_json(element.capture),
+        "effective_basis": element.effective_basis,
+    }
+
+
+def compare_rule_to_json(rule: CompareRule | None) -> Json | None:
+    if rule is None:
+        return None
+    return {
+        "quantity": rule.quantity, "watch": rule.watch, "act": rule.act,
+        "relative": rule.relative, "threshold_unit": rule.threshold_unit,
+        "direction": rule.direction, "check": rule.check, "step": rule.step,
+        "note_up": rule.note_up, "note_down": rule.note_down,
+        "normalise_to_voltage": rule.normalise_to_voltage, "source": rule.source,
+        "adjusted": rule.adjusted,
+    }
+
+
+def item_to_json(item: ItemResult) -> Json:
+    return {
+        "checklist": item.checklist, "id": item.id, "title": item.title, "unit": item.unit,
+        "safety_critical": item.safety_critical, "required": item.required,
+        "verdict": item.verdict.value, "elements": [element_to_json(e) for e in item.elements],
+        "guidance": item.guidance, "caution": item.caution,
+        "compare": compare_rule_to_json(item.compare),
+    }
+
+
+def checklist_to_json(checklist: ChecklistResult) -> Json:
+    return {
+        "id": checklist.id, "title": checklist.title, "purpose": checklist.purpose,
+        "version": checklist.version, "origin": checklist.origin,
+        "caution": checklist.caution, "verdict": checklist.verdict.value,
+        "items": [item_to_json(i) for i in checklist.items],
+    }
+
+
+def change_to_json(change: Change) -> Json:
+    return {
+        "item": change.item, "title": change.title, "element": change.element,
+        "quantity": change.quantity, "unit": change.unit,
+        "baseline_value": change.baseline_value, "value": change.value,
+        "baseline_text": change.baseline_text, "text": change.text, "change": change.change,
+        "change_unit": change.change_unit, "change_text": change.change_text,
+        "classification": change.classification.value, "thresholds": change.thresholds,
+        "source": change.source, "note": change.note,
+        "adjustments": list(change.adjustments), "reason": change.reason,
+    }
+
+
+def part_to_json(part: PartReplacement) -> Json:
+    return {
+        "part": part.part, "reason": part.reason, "old": part.old, "new": part.new,
+        "element": part.element, "items": list(part.items), "before": part.before,
+        "behaviour": [change_to_json(c) for c in part.behaviour],
+    }
+
+
+def sign_off_to_json(sign_off: SignOff) -> Json:
+    return {"name": sign_off.name, "role": sign_off.role, "date": sign_off.date,
+            "statement": sign_off.statement}
+
+
+def deficiency_to_json(deficiency: Deficiency) -> Json:
+    # machine and visit are those of the enclosing visit; the anchor is the site's.
+    return {"item": deficiency.item, "title": deficiency.title,
+            "element": deficiency.element, "reading": deficiency.reading,
+            "verdict": deficiency.verdict.value, "severity": deficiency.severity.value}
+
+
+def instrument_use_to_json(use: InstrumentUse) -> Json:
+    return {"instrument": use.instrument, "calibration": use.state, "valid": use.valid}
+
+
+def visit_to_json(visit: VisitResult) -> Json:
+    return {
+        "id": visit.id, "machine": visit.machine, "kind": visit.kind,
+        "date": visit.date.isoformat(), "performed_by": list(visit.performed_by),
+        "state": visit.state.value, "counts": dict(visit.counts),
+        "checklists": [checklist_to_json(c) for c in visit.checklists],
+        "conditions": dict(visit.conditions), "notes": visit.notes,
+        "attachments": [list(a) for a in visit.attachments],
+        "sign_off": [sign_off_to_json(s) for s in visit.sign_off],
+        "source_file": visit.source_file, "baseline": visit.baseline,
+        "changes": [change_to_json(c) for c in visit.changes],
+        "as_left": [item_to_json(i) for i in visit.as_left],
+        "as_found_state": visit.as_found_state.value if visit.as_found_state else None,
+        "parts_replaced": [part_to_json(p) for p in visit.parts_replaced],
+        "open_required": visit.open_required,
+        "deficiencies": [deficiency_to_json(d) for d in visit.deficiencies],
+        "instrument_uses": [instrument_use_to_json(u) for u in visit.instrument_uses],
+    }
+
+
+def machine_to_json(machine: MachineResult) -> Json:
     """One machine's entry of :func:`to_json`'s ``machines`` list."""
-    data = _plain(machine)
-    data["latest_state"] = data["visits"][-1]["state"] if data["visits"] else None
-    return data
+    visits = [visit_to_json(v) for v in machine.visits]
+    return {
+        "id": machine.id, "name": machine.name, "kind": machine.kind, "area": machine.area,
+        "nameplate": {row.label: row.text for row in machine.nameplate}, "visits": visits,
+        "baseline": machine.baseline,
+        "latest_state": visits[-1]["state"] if visits else None,
+    }
 
 
-def to_json(result: JobResult) -> dict[str, Any]:
+def instrument_to_json(instrument: Instrument) -> Json:
+    return {
+        "id": instrument.id, "kind": instrument.kind, "model": instrument.model,
+        "serial": instrument.serial, "response": instrument.response,
+        "category": instrument.category,
+        "calibrated": _date(instrument.calibrated) or "",
+        "calibration_due": _date(instrument.calibration_due) or "",
+        "functions": list(instrument.functions),
+    }
+
+
+def override_to_json(override: Override) -> Json:
+    return {"item": override.item, "check": override.check, "reason": override.reason,
+            "source": override.source, "params": override.params}
+
+
+def to_json(result: JobResult) -> Json:
     """The machine-readable results (schema ``acceptance-results/1``, see README)."""
-    data = {name: (_plain(getattr(result, name)) if name != "machines"
-                   else [machine_to_json(m) for m in result.machines])
-            for name in result.__dataclass_fields__}
-    return {"schema": RESULTS_SCHEMA, **data}
+    return {
+        "schema": RESULTS_SCHEMA, "title": result.title, "site": result.site,
+        "contractor": result.contractor,
+        "reference_temperature": result.reference_temperature,
+        "standards": list(result.standards),
+        "overrides": [override_to_json(o) for o in result.overrides],
+        "machines": [machine_to_json(m) for m in result.machines],
+        "tool_version": result.tool_version,
+        "instruments": [instrument_to_json(i) for i in result.instruments],
+        "decision_rule": result.decision_rule, "coverage_factor": result.coverage_factor,
+    }

@@ -28,19 +28,6 @@ _JSON_KEY_INDENT = "  "
 _JSON_ITEM_INDENT = "    "
 
 
-def _marks() -> tuple[dict, dict]:
-    from ..results import Verdict, VisitState
-
-    marks = {
-        Verdict.PASS: "✓", Verdict.CONDITIONAL_PASS: "≈✓", Verdict.CONDITIONAL_FAIL: "≈✗",
-        Verdict.FAIL: "✗", Verdict.UNDETERMINED: "?", Verdict.NOT_TESTED: "○",
-        Verdict.NOT_APPLICABLE: "–", Verdict.RECORDED: "·",
-    }
-    states = {VisitState.PASS: "✓", VisitState.PASS_WITH_DEFICIENCIES: "!",
-              VisitState.INCOMPLETE: "○", VisitState.FAIL: "✗"}
-    return marks, states
-
-
 def register(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("job", type=Path, help="the job folder (holding job.yaml)")
     parser.add_argument("--json", action="store_true",
@@ -53,12 +40,11 @@ def machine_lines(machine: MachineResult, show_all: bool = False) -> list[str]:
     """One machine's section of the summary: its visits and what needs attention."""
     from ..results import Verdict
 
-    _MARK, _STATE_MARK = _marks()  # noqa: N806 - tables, read like constants
     lines = ["", f"{machine.name} [{machine.id}]"]
     if not machine.visits:
         lines.append("  no visits recorded")
     for visit in machine.visits:
-        lines.append(f"  {_STATE_MARK[visit.state]} {visit.id} ({visit.kind}, "
+        lines.append(f"  {visit.state.mark} {visit.id} ({visit.kind}, "
                      f"{visit.date.isoformat()}): {visit.state.value.upper()}"
                      + (f" as left (as found: {visit.as_found_state.value})"
                         if visit.as_found_state is not None else ""))
@@ -75,13 +61,13 @@ def machine_lines(machine: MachineResult, show_all: bool = False) -> list[str]:
                 where = f"{label}{item.key}" + (f"[{element.element}]" if element.element
                                                  else "")
                 reading = element.reading or "—"
-                lines.append(f"      {_MARK[element.verdict]} {element.verdict.value:<16} "
+                lines.append(f"      {element.verdict.mark} {element.verdict.word:<16} "
                              f"{where}: {reading}")
                 for check in element.checks:
                     if check.verdict.is_open or show_all:
-                        detail = f"{_MARK[check.verdict]} {check.limit}"
+                        detail = f"{check.verdict.mark} {check.limit}"
                         if check.compared:
-                            detail = f"{_MARK[check.verdict]} {check.compared}: {check.limit}"
+                            detail = f"{check.verdict.mark} {check.compared}: {check.limit}"
                         if check.message:
                             detail += f" — {check.message}"
                         lines.append(f"          {detail}  ({check.source})")
@@ -90,18 +76,18 @@ def machine_lines(machine: MachineResult, show_all: bool = False) -> list[str]:
                 if element.line:
                     lines.append(f"          at {visit.source_file}:{element.line}")
             if not item.elements and show_all:
-                lines.append(f"      {_MARK[item.verdict]} {item.verdict.value:<16} "
+                lines.append(f"      {item.verdict.mark} {item.verdict.word:<16} "
                              f"{item.key}")
     return lines
 
 
 def totals_line(states: list[str]) -> str:
     """The last line of the summary: how many visits are in each state."""
-    from ..results import VisitState
+    from ..results import VisitState, count_states
 
-    counts = {state: states.count(state.value) for state in VisitState}
+    counts = count_states(VisitState(state) for state in states)
     return f"{len(states)} visits: " + ", ".join(
-        f"{count} {state.value}" for state, count in counts.items() if count)
+        f"{count} {state.word}" for state, count in counts if count)
 
 
 def run(args: argparse.Namespace) -> int:

@@ -15,9 +15,9 @@ from ..evaluation import evaluate_job
 from ..history import (
     COMPARISON_SCHEMA,
     VisitComparison,
-    compare_visits,
     comparison_to_json,
     select_baseline,
+    visit_comparison,
 )
 from ..loading import load_job
 from ..results import ChangeClass, JobResult, MachineResult
@@ -63,7 +63,9 @@ def comparisons(result: JobResult, machine_id: str | None = None, baseline: str 
         if base is None:
             continue
         targets = [visit] if visit else ids[ids.index(base) + 1:]
-        found.extend(compare_visits(machine, base, target) for target in targets
+        # The changes against the machine's baseline are those evaluation attached to each
+        # visit; another baseline (--baseline, or --visit before it) is compared here.
+        found.extend(visit_comparison(machine, base, target) for target in targets
                      if target != base)
     return found
 

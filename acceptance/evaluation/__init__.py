@@ -8,11 +8,25 @@ from __future__ import annotations
 
 import dataclasses
 from collections import Counter
+from collections.abc import Sequence
 
 from .. import __version__
-from ..history import compare_rule, compare_visits, part_behaviour, select_baseline
+from ..history import (
+    compare_rule,
+    compare_visits,
+    part_behaviour,
+    select_baseline,
+    trend_series,
+)
 from ..loading import Job, LoadedChecklist, LoadedMachine, LoadedVisit, Reading, element_names
-from ..model import ChecklistItem, LimitOverride
+from ..model import (
+    BondingPoint,
+    CapacitorSpec,
+    ChecklistItem,
+    LimitOverride,
+    SurveyPoint,
+    WindingSpec,
+)
 from ..results import (
     ChecklistResult,
     CheckResult,
@@ -20,10 +34,14 @@ from ..results import (
     ItemResult,
     JobResult,
     MachineResult,
+    NameplateRow,
+    Override,
     PartReplacement,
+    SignOff,
     Verdict,
     VisitResult,
     VisitState,
+    count_states,
     worst,
 )
 from ..units import Dimension, Quantity
@@ -35,6 +53,8 @@ from .instruments import (
     instrument_findings,
     reading_uncertainty,
 )
+from .punch_list import deficiencies, open_required
+from .register import instrument_entries, instrument_uses
 from .rules import RULES, Context, Outcome
 
 __all__ = ["evaluate_job", "visit_state"]
@@ -59,11 +79,17 @@ def _applies(item: ChecklistItem, machine: LoadedMachine) -> bool:
     }[item.applies_when]
 
 
-def _element_spec(item: ChecklistItem, machine: LoadedMachine, element: str | None):  # noqa: ANN202
+ElementSpec = WindingSpec | CapacitorSpec | SurveyPoint | BondingPoint
+
+
+def _element_spec(item: ChecklistItem, machine: LoadedMachine,
+                  element: str | None) -> ElementSpec | None:
     nameplate = machine.model.nameplate
-    pool = {"winding": nameplate.windings, "capacitor": nameplate.capacitors,
-            "survey_point": machine.model.survey_points,
-            "bonding_point": machine.model.bonding_points}.get(item.per, [])
+    pools: dict[str, Sequence[ElementSpec]] = {
+        "winding": nameplate.windings, "capacitor": nameplate.capacitors,
+        "survey_point": machine.model.survey_points,
+        "bonding_point": machine.model.bonding_points}
+    pool = pools.get(item.per, ())
     return next((entry for entry in pool if entry.id == element), None)
 
 
@@ -217,6 +243,10 @@ def _as_left_view(visit: LoadedVisit) -> LoadedVisit:
 
 def _evaluate_visit(visit: LoadedVisit, job: Job, machine: LoadedMachine) -> VisitResult:
     found = _evaluate_readings(visit, job, machine)
+    # The punch list and the instruments' calibration are those of the visit as found.
+    found = dataclasses.replace(found, open_required=open_required(found),
+                                deficiencies=deficiencies(found),
+                                instrument_uses=instrument_uses(found, job.instruments))
     if not visit.as_left:
         return found
     left = _evaluate_readings(_as_left_view(visit), job, machine)
@@ -257,8 +287,8 @@ def _evaluate_readings(visit: LoadedVisit, job: Job, machine: LoadedMachine) -> 
         counts={v.value: counts.get(v.value, 0) for v in Verdict},
         checklists=tuple(checklists), conditions=conditions, notes=visit.model.notes,
         attachments=tuple((a.path, a.title) for a in visit.model.attachments),
-        sign_off=tuple({"name": s.name, "role": s.role, "date": s.date.isoformat(),
-                        "statement": s.statement or ""} for s in visit.model.sign_off),
+        sign_off=tuple(SignOff(name=s.name, role=s.role, date=s.date.isoformat(),
+                               statement=s.statement or "") for s in visit.model.sign_off),
         source_file=visit.document.display_name,
         parts_replaced=tuple(PartReplacement(
             part=p.part, reason=p.reason, old=p.old, new=p.new, element=p.element,
@@ -266,7 +296,8 @@ def _evaluate_readings(visit: LoadedVisit, job: Job, machine: LoadedMachine) -> 
 
 
 def _with_history(machine: MachineResult, named: str | None) -> MachineResult:
-    """Each visit after the baseline with its changes; parts replaced with before and after."""
+    """Each visit after the baseline with its changes; parts replaced with before and after;
+    the trends of the compared items over the visits."""
     baseline = select_baseline(machine.visits, named)
     if baseline is None:
         return machine
@@ -281,12 +312,13 @@ def _with_history(machine: MachineResult, named: str | None) -> MachineResult:
         if visit.parts_replaced:
             visit = dataclasses.replace(visit, parts_replaced=part_behaviour(machine, visit))
         visits.append(visit)
-    return dataclasses.replace(machine, visits=tuple(visits))
+    machine = dataclasses.replace(machine, visits=tuple(visits))
+    return dataclasses.replace(machine, trends=trend_series(machine))
 
 
-def _nameplate_summary(machine: LoadedMachine) -> dict[str, object]:
+def _nameplate_summary(machine: LoadedMachine) -> tuple[NameplateRow, ...]:
     nameplate = machine.model.nameplate
-    summary: dict[str, object] = {
+    summary: dict[str, str] = {
         "rated voltage": nameplate.rated_voltage.text,
         "phases": str(nameplate.phases) + (" + N" if nameplate.neutral else ""),
         "frequency": nameplate.frequency.text if nameplate.frequency else "d.c.",
@@ -319,7 +351,7 @@ def _nameplate_summary(machine: LoadedMachine) -> dict[str, object]:
         if capacitor.rated_voltage is not None:
             text += f", {capacitor.rated_voltage.text}"
         summary[f"capacitor: {capacitor.name}"] = text
-    return summary
+    return tuple(NameplateRow(label, text) for label, text in summary.items())
 
 
 def evaluate_job(job: Job) -> JobResult:
@@ -330,24 +362,17 @@ def evaluate_job(job: Job) -> JobResult:
                                     visits=tuple(_evaluate_visit(v, job, m) for v in m.visits)),
                       m.model.baseline)
         for m in job.machines)
-    instruments = tuple(
-        {"id": i.id, "kind": i.kind, "model": i.model or "", "serial": i.serial or "",
-         "response": i.response, "category": i.category or "",
-         "calibrated": i.calibrated.isoformat() if i.calibrated else "",
-         "calibration_due": i.calibration_due.isoformat() if i.calibration_due else "",
-         "functions": [f"{f.measures}" + (f", range {f.range}" if f.range else "")
-                       + f": {f.accuracy}" + (f", resolution {f.resolution}" if f.resolution
-                                               else "") for f in i.functions]}
-        for i in sorted(job.instruments.values(), key=lambda i: i.id))
-    overrides = tuple({"item": o.item, "check": o.check, "reason": o.reason,
-                       "source": o.source.describe(),
-                       "params": ", ".join(f"{k} = {v}" for k, v in o.params.items())}
+    overrides = tuple(Override(item=o.item, check=o.check, reason=o.reason,
+                               source=o.source.describe(),
+                               params=", ".join(f"{k} = {v}" for k, v in o.params.items()))
                       for o in job.model.overrides)
+    visits = [visit for machine in machines for visit in machine.visits]
     return JobResult(
         title=job.model.title, site=job.model.site.name, contractor=job.model.contractor.name,
         reference_temperature=job.model.reference_temperature.text or "20 °C",
         standards=tuple(f"{s.document}:{s.edition}" + (f" — {s.title}" if s.title else "")
                         for s in job.model.standards),
         overrides=overrides, machines=machines, tool_version=__version__,
-        instruments=instruments, decision_rule=job.model.decision_rule,
-        coverage_factor=job.model.coverage_factor)
+        instruments=instrument_entries(job.instruments, visits),
+        decision_rule=job.model.decision_rule, coverage_factor=job.model.coverage_factor,
+        state_counts=count_states(visit.state for visit in visits))

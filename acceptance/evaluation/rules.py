@@ -18,8 +18,9 @@ from ..units import Basis, Dimension, Quantity, UnitError, format_value, parse_q
 from .capacitor_codes import tolerance_window
 
 if TYPE_CHECKING:
+    from ..computations.waveform import WaveformMetrics
     from ..loading import Job, LoadedMachine, LoadedVisit, Reading
-    from ..model import ChecklistItem
+    from ..model import ChecklistItem, Nameplate
 
 __all__ = ["RULES", "Context", "Outcome", "Rule", "SYMBOLS"]
 
@@ -44,7 +45,7 @@ class Context:
     element: Any  # WindingSpec | CapacitorSpec | SurveyPoint | None
 
     @property
-    def nameplate(self):  # noqa: ANN201 - the model's Nameplate
+    def nameplate(self) -> Nameplate:
         return self.machine.model.nameplate
 
     def reading_of(self, key: str, element: str | None) -> Reading | None:
@@ -324,13 +325,14 @@ def _current_against(reading: Reading, context: Context, params: dict[str, Any])
     return _compare(tolerance, reading.value.value, steps)
 
 
-def _captured_current(reading: Reading):  # noqa: ANN202 - WaveformMetrics | None
+def _captured_current(reading: Reading) -> WaveformMetrics | None:
     capture = reading.capture
     if capture is None or capture.current_channel is None:
         return None
     for channel in capture.channels:
         if channel.name == capture.current_channel:
-            return channel.metrics
+            metrics: WaveformMetrics = channel.metrics
+            return metrics
     return None
 
 

@@ -17,27 +17,7 @@ from markupsafe import Markup
 from ..resources import templates_dir
 from ..results import Verdict, VisitState
 
-__all__ = ["make_environment", "render_markdown", "VERDICT_SHAPES", "STATE_SHAPES",
-           "SIGNATURE_SHAPES"]
-
-# Each verdict has a word and a shape, so a record reads in grey-scale print and for
-# readers who do not tell colours apart (NAMING.md: more than colour alone).
-VERDICT_SHAPES: dict[Verdict, str] = {
-    Verdict.PASS: "✓",
-    Verdict.CONDITIONAL_PASS: "✓?",
-    Verdict.CONDITIONAL_FAIL: "✗?",
-    Verdict.FAIL: "✗",
-    Verdict.UNDETERMINED: "?",
-    Verdict.NOT_TESTED: "○",
-    Verdict.NOT_APPLICABLE: "–",
-    Verdict.RECORDED: "·",
-}
-STATE_SHAPES: dict[VisitState, str] = {
-    VisitState.PASS: "✓",
-    VisitState.PASS_WITH_DEFICIENCIES: "!",
-    VisitState.INCOMPLETE: "○",
-    VisitState.FAIL: "✗",
-}
+__all__ = ["make_environment", "render_markdown", "SIGNATURE_SHAPES"]
 
 # Sign-off states, also a word and a shape; "altered" is drawn like a failure because the
 # verdicts shown are no longer the ones that were signed.
@@ -80,11 +60,10 @@ def render_markdown(text: str | None) -> Markup:
 
 
 def _verdict_badge(verdict: Verdict | VisitState) -> Markup:
-    shape = (VERDICT_SHAPES[verdict] if isinstance(verdict, Verdict)
-             else STATE_SHAPES[verdict])
+    """A verdict's or state's word and mark, both from their one definition in ``results``."""
     return Markup('<span class="badge v-{slug}"><span class="shape" aria-hidden="true">'
                   '{shape}</span> {word}</span>').format(
-        slug=verdict.slug, shape=shape, word=verdict.value)
+        slug=verdict.slug, shape=verdict.mark, word=verdict.word)
 
 
 def _signature_badge(status: Any) -> Markup:

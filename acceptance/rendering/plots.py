@@ -19,6 +19,8 @@ import jinja2
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
+from ..results import MachineResult
+
 __all__ = [
     "Bar",
     "Legend",
@@ -600,18 +602,18 @@ def _display_factor(base_unit: str, display_unit: str | None) -> tuple[str, floa
     return base_unit, 1.0
 
 
-def render_machine_trends(env: jinja2.Environment, machine: object) -> list[dict[str, object]]:
-    """One trend SVG per compared item of a machine (see :func:`acceptance.history.trend_series`).
+def render_machine_trends(env: jinja2.Environment,
+                          machine: MachineResult) -> list[dict[str, object]]:
+    """One trend SVG per compared item of a machine, drawn from the trends evaluation
+    attached to it (:func:`acceptance.history.trend_series`).
 
     Returns a list of ``{"item", "title", "quantity", "svg"}``, in checklist order.
     """
     from markupsafe import Markup
 
-    from ..history import trend_series
-
-    dates = {visit.id: visit.date for visit in machine.visits}  # type: ignore[attr-defined]
+    dates = {visit.id: visit.date for visit in machine.visits}
     plots: list[dict[str, object]] = []
-    trend_series_of = trend_series(machine)  # type: ignore[arg-type]
+    trend_series_of = machine.trends
     for series in trend_series_of:
         unit, factor = _display_factor(series.unit, series.display_unit)
         split = sum(1 for other in trend_series_of if other.item == series.item) > 1

@@ -14,7 +14,7 @@ import json
 from collections.abc import Iterable, Mapping
 from typing import Any
 
-from ..results import JobResult, VisitState
+from ..results import Deficiency, JobResult, VisitResult
 
 __all__ = ["INDEX_DATA_NAME", "DEFICIENCIES_CSV_NAME", "index_options", "index_data_script",
            "deficiencies_csv", "review_globals", "verdict_counts"]
@@ -35,9 +35,8 @@ def index_options(result: JobResult) -> dict[str, Any]:
         for checklist in visit.checklists:
             checklists.setdefault(checklist.id, checklist.title)
     return {
-        "states": [{"value": state.slug, "label": state.value,
-                    "count": sum(1 for v in visits if v.state is state)}
-                   for state in VisitState],
+        "states": [{"value": state.slug, "label": state.word, "mark": state.mark,
+                    "count": count} for state, count in result.state_counts],
         "areas": [{"value": area, "label": area,
                    "count": sum(len(m.visits) for m in result.machines if m.area == area)}
                   for area in areas],
@@ -62,7 +61,7 @@ def verdict_counts(counts: Mapping[str, int]) -> list[tuple[str, int]]:
     return [(word, count) for word, count in counts.items() if count]
 
 
-def deficiencies_csv(rows: Iterable[Mapping[str, Any]], result: JobResult,
+def deficiencies_csv(rows: Iterable[Deficiency], result: JobResult,
                      signatures: Mapping[str, Any] | None = None) -> str:
     """The punch list as CSV with a header row (RFC 4180), one line per open point."""
     machines = {m.id: m for m in result.machines}
@@ -71,23 +70,21 @@ def deficiencies_csv(rows: Iterable[Mapping[str, Any]], result: JobResult,
     writer = csv.writer(buffer, lineterminator="\r\n")
     writer.writerow(_CSV_COLUMNS)
     for row in rows:
-        machine = machines[str(row["machine"])]
-        key = f"{row['machine']}/{row['visit']}"
-        status = (signatures or {}).get(key)
-        verdict = row["verdict"]
+        machine = machines[row.machine]
+        status = (signatures or {}).get(f"{row.machine}/{row.visit}")
         writer.writerow([
-            row["machine"], machine.name, machine.area or "", row["visit"],
-            dates[(str(row["machine"]), str(row["visit"]))], row["item"], row["title"],
-            row["element"] or "", row["reading"] or "",
-            getattr(verdict, "value", verdict), row["severity"],
+            row.machine, machine.name, machine.area or "", row.visit,
+            dates[(row.machine, row.visit)], row.item, row.title, row.element or "",
+            row.reading or "", row.verdict.word, row.severity.value,
             status.phrase if status is not None else "not signed",
-            f"machines/{row['machine']}/{row['visit']}.html#{row['anchor']}"])
+            f"machines/{row.machine}/{row.visit}.html#{row.anchor}"])
     return buffer.getvalue()
 
 
 def review_globals(signatures: Mapping[str, Any], package_pdf: bool) -> dict[str, Any]:
-    """Template globals for sign-off states and the index: ``signature_of(visit)`` takes a
-    visit result or a mapping with ``machine`` and ``visit``."""
+    """Template globals for sign-off states and the index: ``signature_of(thing)`` takes a
+    visit result, a record with ``machine`` and ``visit`` (a deficiency, an instrument use) or
+    a mapping with those keys."""
     from ..integrity import SignatureStatus
 
     unsigned = SignatureStatus("unsigned")
@@ -95,8 +92,10 @@ def review_globals(signatures: Mapping[str, Any], package_pdf: bool) -> dict[str
     def signature_of(thing: Any) -> Any:
         if isinstance(thing, Mapping):
             key = f"{thing['machine']}/{thing['visit']}"
-        else:
+        elif isinstance(thing, VisitResult):
             key = f"{thing.machine}/{thing.id}"
+        else:
+            key = f"{thing.machine}/{thing.visit}"
         return signatures.get(key, unsigned)
 
     return {"signature_of": signature_of, "verdict_counts": verdict_counts,

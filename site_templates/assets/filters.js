@@ -1,7 +1,8 @@
 /* Filters for the index: state, area, checklist, open items.
    Progressive enhancement: without this script the index is the plain table. The choices come
    from index-data.js (written by the build) because a page opened from file:// may not fetch
-   JSON; each row carries data-state, data-area, data-checklists and data-open. */
+   JSON; each row carries data-state, data-area, data-checklists and data-open. A state's
+   option carries its mark beside its word, as every badge of the site does. */
 (function () {
   "use strict";
   var data = window.acceptanceIndex;
@@ -21,8 +22,10 @@
     options.forEach(function (option) {
       var element = document.createElement("option");
       element.value = option.value;
-      element.textContent = option.count === undefined ? option.label
-        : option.label + " (" + option.count + ")";
+      // A state shows the word and mark the records show (one definition, in the results).
+      var label = option.mark ? option.mark + " " + option.label : option.label;
+      element.textContent = option.count === undefined ? label
+        : label + " (" + option.count + ")";
       control.appendChild(element);
     });
     wrapper.appendChild(name);
