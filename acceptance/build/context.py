@@ -15,11 +15,11 @@ from pathlib import Path
 from typing import TYPE_CHECKING
 
 from .. import __version__
+from ..integrity import SignatureStatus
 from ..loading import Job
 from ..results import JobResult
 
 if TYPE_CHECKING:  # the PDF stack loads only when a build renders PDFs
-    from ..integrity import SignatureStatus
     from ..rendering.package import KeptPart
     from ..rendering.pdf import PdfInfo, PdfSource
 
