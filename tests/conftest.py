@@ -197,7 +197,7 @@ def step() -> Callable[[CheckResult, str], float]:
 @pytest.fixture(scope="session")
 def demo_site(tmp_path_factory: pytest.TempPathFactory) -> Path:
     """The demo job built once per test session, PDFs included."""
-    from acceptance.pipeline import build_site
+    from acceptance.build import build_site
 
     output = tmp_path_factory.mktemp("site") / "demo_site"
     report = build_site(DEMO_JOB, output)

@@ -10,7 +10,7 @@ from pathlib import Path
 import pytest
 from pypdf import PdfReader
 
-from acceptance.pipeline import build_site
+from acceptance.build import build_site
 from tests.conftest import PASSING_SUPPLY, write_job
 
 # ISO 19005-3 6.6.4 / 6.8: a PDF/A-3 file names its part and conformance level in XMP

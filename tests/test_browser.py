@@ -11,7 +11,7 @@ from pathlib import Path
 
 import pytest
 
-from acceptance.pipeline import build_site
+from acceptance.build import build_site
 from tests.conftest import DEMO_JOB
 
 playwright_sync = pytest.importorskip("playwright.sync_api")

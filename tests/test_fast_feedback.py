@@ -115,9 +115,9 @@ def test_new_names_an_unknown_machine(make_job, capsys):
     assert "no machine 'm2' in this job (machines: m1)" in capsys.readouterr().err
 
 
-def _modules_after_check(root: Path, *names: str) -> list[str]:
-    """Run check on ``root`` in a new interpreter; which of ``names`` it imported."""
-    code = (f"import sys; sys.argv = ['acceptance', 'check', {str(root)!r}]\n"
+def _modules_after(argv: list[str], *names: str) -> list[str]:
+    """Run ``acceptance *argv`` in a new interpreter; which of ``names`` it imported."""
+    code = (f"import sys; sys.argv = ['acceptance', *{argv!r}]\n"
             "from acceptance.cli import main\n"
             "main()\n"
             f"print('LOADED', [m for m in {names!r} if m in sys.modules])")
@@ -126,14 +126,32 @@ def _modules_after_check(root: Path, *names: str) -> list[str]:
     return ast.literal_eval(out.stdout.split("LOADED", 1)[1].strip())
 
 
+def _modules_after_check(root: Path, *names: str) -> list[str]:
+    """Run check on ``root`` in a new interpreter; which of ``names`` it imported."""
+    return _modules_after(["check", str(root)], *names)
+
+
 def test_check_does_not_import_the_pdf_stack(make_job):
     # Start-up: check must stay light (WeasyPrint, Jinja2 and the capture importer are for
     # the build and the capture command only; numpy for jobs with captures).
     root = make_job()
-    heavy = ("weasyprint", "pydyf", "jinja2", "markdown_it", "numpy", "acceptance.captures")
+    heavy = ("weasyprint", "pydyf", "jinja2", "markdown_it", "numpy", "acceptance.captures",
+             "acceptance.build")
     assert _modules_after_check(root, *heavy) == []
     # Nothing changed since: the output is reprinted without the model or the evaluation.
     assert _modules_after_check(root, "pydantic", "acceptance.evaluation", "yaml") == []
+
+
+def test_a_build_without_pdfs_does_not_import_the_pdf_stack(make_job, tmp_path):
+    # The live preview builds without PDFs on every save: WeasyPrint and pypdf are loaded
+    # only by the build stages that render PDFs.
+    root = make_job()
+    site = tmp_path / "site"
+    pdf_stack = ("weasyprint", "pydyf", "pypdf", "acceptance.rendering.pdf",
+                 "acceptance.rendering.package")
+    assert _modules_after(["build", str(root), "-o", str(site), "--no-pdf", "-q"],
+                          *pdf_stack) == []
+    assert (site / "index.html").is_file() and not list(site.rglob("*.pdf"))
 
 
 def _free_port() -> int:

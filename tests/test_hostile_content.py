@@ -24,9 +24,9 @@ from urllib.parse import unquote
 import pytest
 from pypdf import PdfReader
 
+from acceptance.build import build_site
 from acceptance.errors import InputError
 from acceptance.loading import load_job
-from acceptance.pipeline import build_site
 from acceptance.rendering.html import render_markdown
 from acceptance.rendering.pdf import ConfinedFetcher, RefusedFetch
 from acceptance.yamlfile import MAX_FILE_BYTES, load_yaml

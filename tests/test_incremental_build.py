@@ -13,9 +13,9 @@ from pathlib import Path
 
 import pytest
 
-import acceptance.pipeline as pipeline
+import acceptance.build.pdfs as pdfs
 import acceptance.rendering.package as package
-from acceptance.pipeline import MANIFEST_NAME, build_site
+from acceptance.build import MANIFEST_NAME, build_site
 from tests.conftest import PASSING_SUPPLY, write_job
 
 pytestmark = pytest.mark.slow
@@ -50,7 +50,7 @@ class Spy:
     def __init__(self, monkeypatch: pytest.MonkeyPatch) -> None:
         self.rendered: list[str] = []
         self.laid_out: list[str] = []
-        render_one, lay_out = pipeline._render_one, package.lay_out_part
+        render_one, lay_out = pdfs._render_one, package.lay_out_part
 
         def spy_render(task, staging):  # noqa: ANN001, ANN202
             self.rendered.append(task.pdf)
@@ -60,7 +60,7 @@ class Spy:
             self.laid_out.append(Path(target).name)
             return lay_out(html, target, *arguments)
 
-        monkeypatch.setattr(pipeline, "_render_one", spy_render)
+        monkeypatch.setattr(pdfs, "_render_one", spy_render)
         monkeypatch.setattr(package, "lay_out_part", spy_lay_out)
 
 

@@ -16,6 +16,7 @@ import pytest
 import yaml
 
 from acceptance import cli
+from acceptance.build import build_site
 from acceptance.integrity import (
     IntegrityError,
     canonical_json,
@@ -29,7 +30,6 @@ from acceptance.integrity import (
     visit_digest,
 )
 from acceptance.loading import load_job
-from acceptance.pipeline import build_site
 from acceptance.resources import checklists_dir
 from tests.conftest import PASSING_SUPPLY
 

@@ -26,8 +26,8 @@ from pathlib import Path
 
 import pytest
 
+from acceptance.build import build_site
 from acceptance.cli import main
-from acceptance.pipeline import build_site
 from tests.conftest import PASSING_SUPPLY, write_job
 
 pytestmark = pytest.mark.slow

@@ -2,8 +2,8 @@
 
 from __future__ import annotations
 
-import acceptance.pipeline as pipeline
-from acceptance.pipeline import build_site
+import acceptance.build.pdfs as pdfs
+from acceptance.build import build_site
 from tests.conftest import DEMO_JOB
 
 
@@ -11,7 +11,7 @@ def test_workers_retiring_after_every_document_still_render_every_pdf(
         demo_site, tmp_path, monkeypatch):
     # One document per worker forces a replacement after every PDF: a pool that stops
     # replacing its workers would hang here rather than in a large customer build.
-    monkeypatch.setattr(pipeline, "TASKS_PER_WORKER", 1)
+    monkeypatch.setattr(pdfs, "TASKS_PER_WORKER", 1)
     site = tmp_path / "site"
     report = build_site(DEMO_JOB, site, jobs=2)
     assert report.rendered == report.pdfs > 2

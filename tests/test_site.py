@@ -15,8 +15,8 @@ from pypdf import PdfReader
 
 import acceptance.rendering.pdf
 from acceptance import cli
+from acceptance.build import MANIFEST_NAME, build_site
 from acceptance.errors import BuildError
-from acceptance.pipeline import MANIFEST_NAME, build_site
 from tests.conftest import DEMO_JOB
 
 DEMO_VISITS = sorted(DEMO_JOB.glob("machines/*/visits/*.yaml"))

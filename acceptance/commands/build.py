@@ -7,8 +7,8 @@ import os
 import sys
 from pathlib import Path
 
+from ..build import build_site
 from ..errors import BuildError
-from ..pipeline import build_site
 
 
 def register(parser: argparse.ArgumentParser) -> None:

@@ -20,8 +20,8 @@ from functools import partial
 from http.server import SimpleHTTPRequestHandler, ThreadingHTTPServer
 from pathlib import Path
 
+from ..build import build_site
 from ..errors import AcceptanceError, InputError
-from ..pipeline import build_site
 from ..resources import checklists_dir, templates_dir
 
 _STATUS_PATH = "/__acceptance/status"

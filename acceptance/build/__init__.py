@@ -1,0 +1,65 @@
+"""The build: load → evaluate → plan the site → render the pages → decide what is stale →
+write staging → render the PDFs → assemble the package → manifest → exchange.
+
+Each stage is a module of this package and a verb taking the one :class:`BuildContext`.
+Everything is written into a staging folder beside the output; only when every page and
+PDF is complete is the staging folder exchanged with the previous site in one rename, so a
+failed or interrupted build leaves the previous site intact.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from ..evaluation import evaluate_job
+from ..loading import load_job
+from .context import MANIFEST_NAME, BuildContext, BuildReport, Progress, SitePage
+from .exchange import build_lock, check_output, clear_leftovers, exchange
+from .manifest import sign_unchanged_manifest, write_manifest
+from .package import assemble_package, find_kept_front
+from .pages import render_pages
+from .pdfs import render_pdfs
+from .plan import plan_site
+from .staging import discard_staging, open_staging, write_staging
+from .stale import decide_stale, write_build_state
+
+__all__ = ["BuildReport", "SitePage", "build_site", "plan_site", "MANIFEST_NAME"]
+
+
+def build_site(job_root: Path, output: Path, with_pdf: bool = True,
+               progress: Progress | None = None, jobs: int = 1,
+               key: Path | None = None) -> BuildReport:
+    """Build the site for the job at ``job_root`` into ``output``.
+
+    Only what changed is rendered again: a PDF whose page, styles and tool version are
+    unchanged is taken from the previous site, and a rebuild that changes nothing writes
+    nothing at all.
+    """
+    job_root, output = Path(job_root), Path(output)
+    job = load_job(job_root)  # raises InputError before anything is written
+    result = evaluate_job(job)
+    check_output(output, job_root)
+    ctx = BuildContext(job_root, output, job, result, with_pdf=with_pdf, jobs=jobs, key=key,
+                       progress=progress)
+    with build_lock(output):
+        clear_leftovers(output)
+        ctx.pages = plan_site(result)
+        ctx.report.pages = len(ctx.pages)
+        render_pages(ctx)
+        if decide_stale(ctx):
+            if key is not None:
+                sign_unchanged_manifest(output, key)
+            return ctx.report
+        find_kept_front(ctx)
+        open_staging(ctx)
+        try:
+            write_staging(ctx)
+            render_pdfs(ctx)
+            assemble_package(ctx)
+            write_build_state(ctx)
+            write_manifest(ctx)
+            exchange(ctx.staging, output)
+        except BaseException:
+            discard_staging(ctx)
+            raise
+    return ctx.report
