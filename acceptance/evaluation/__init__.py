@@ -10,6 +10,7 @@ import dataclasses
 from collections import Counter
 
 from .. import __version__
+from ..computations import ComputationError
 from ..history import compare_rule, compare_visits, part_behaviour, select_baseline
 from ..loading import Job, LoadedChecklist, LoadedMachine, LoadedVisit, Reading, element_names
 from ..model import ChecklistItem, LimitOverride
@@ -104,7 +105,7 @@ def _evaluate_element(item: ChecklistItem, checklist: LoadedChecklist, element: 
         key = f"{checklist.id}.{item.id}"
         override = _override(job, key, spec.id)
         params = {**spec.params, **(override.params if override else {})}
-        outcome = RULES[spec.rule].evaluate(reading, context, params)
+        outcome = _run_rule(spec.rule, reading, context, params)
         source = override.source.describe() if override else spec.source.describe()
         if outcome.source_note and not override:
             source = (outcome.source_note if outcome.source_replaces
@@ -139,6 +140,21 @@ def _evaluate_element(item: ChecklistItem, checklist: LoadedChecklist, element: 
                                       ReadingUncertainty) else uncertainty),
                          findings=tuple(findings), capture=reading.capture,
                          effective_basis=_basis(context, reading))
+
+
+def _run_rule(name: str, reading: Reading, context: Context,
+              params: dict[str, object]) -> Outcome:
+    """Evaluate one check; the one place where a computation that cannot be done (a
+    formula refusing its inputs, e.g. a winding temperature at or below −k) becomes an
+    undetermined check that says why, instead of stopping the whole evaluation."""
+    rule = RULES[name]
+    try:
+        return rule.evaluate(reading, context, params)
+    except (ComputationError, ValueError, ZeroDivisionError, OverflowError) as error:
+        reason = str(error) or type(error).__name__
+        return Outcome(Verdict.UNDETERMINED, rule.summary,
+                       message=f"cannot be computed from these values: {reason}; "
+                               f"check the reading and the nameplate")
 
 
 def _compared(outcome: Outcome) -> tuple[float | None, str]:
