@@ -28,7 +28,6 @@ from ..results import (
     worst,
 )
 from ..units import Dimension, Quantity
-from . import derived  # noqa: F401 - registers the derived rules into RULES
 from .instruments import (
     ReadingUncertainty,
     assess,
@@ -36,7 +35,8 @@ from .instruments import (
     instrument_findings,
     reading_uncertainty,
 )
-from .rules import RULES, Context, Outcome
+from .registry import RULES
+from .rules import Context, Outcome
 
 __all__ = ["evaluate_job", "visit_state"]
 

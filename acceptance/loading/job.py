@@ -5,6 +5,9 @@ from __future__ import annotations
 from collections.abc import Collection
 from pathlib import Path
 
+from ..capacitor_codes import tolerance_window_error
+from ..computations import ComputationError
+from ..computations.uncertainty import ACCURACY_FORMS, parse_accuracy_specification
 from ..errors import InputError, Problem
 from ..model import (
     Instrument,
@@ -13,6 +16,8 @@ from ..model import (
     MachineFile,
     VisitFile,
 )
+from ..rule_specs import SPECS
+from ..signature_records import SIGNATURES_DIR, SignatureFile
 from ..units import UnitError, parse_quantity
 from ..yamlfile import Document, KeyPath, format_key_path
 from .checklists import _bounds_order, _load_checklists, _voltage_item_problem
@@ -116,9 +121,6 @@ def load_job(root: Path, include_visits: bool = True,
 
 def _check_accuracy(instrument: Instrument, index: int, document: Document,
                     problems: list[Problem]) -> None:
-    from ..computations import ComputationError
-    from ..computations.uncertainty import ACCURACY_FORMS, parse_accuracy_specification
-
     for number, entry in enumerate(instrument.functions):
         path: KeyPath = ("instruments", index, "functions", number)
         try:
@@ -146,8 +148,6 @@ def _check_accuracy(instrument: Instrument, index: int, document: Document,
 
 def _check_overrides(job: JobFile, document: Document, checklists: dict[str, LoadedChecklist],
                      problems: list[Problem]) -> None:
-    from ..evaluation.rules import RULES
-
     for index, override in enumerate(job.overrides):
         path: KeyPath = ("overrides", index)
         checklist_id, _, item_id = override.item.partition(".")
@@ -168,7 +168,7 @@ def _check_overrides(job: JobFile, document: Document, checklists: dict[str, Loa
                 f"{_suggest(override.check, known)}"))
             continue
         merged = {**check.params, **override.params}
-        for message in [*RULES[check.rule].validate_params(merged, item),
+        for message in [*SPECS[check.rule].validate_params(merged, item),
                         *_bounds_order(merged)]:
             problems.append(document.problem((*path, "params"), message))
 
@@ -239,8 +239,6 @@ def _load_machines(root: Path, checklists: dict[str, LoadedChecklist],
 
 def _load_signatures(machine: LoadedMachine, root: Path, problems: list[Problem]) -> None:
     """Read ``signatures/<visit>.yaml`` of each visit; what they cover is checked later."""
-    from ..integrity import SIGNATURES_DIR, SignatureFile
-
     folder = machine.folder / SIGNATURES_DIR
     if not folder.is_dir():
         return
@@ -281,8 +279,6 @@ def _check_machine(machine: LoadedMachine, checklists: dict[str, LoadedChecklist
                     (*where, index, "id"), f"{kind} id '{entry.id}' is used twice (first as "
                                            f"entry {seen[entry.id] + 1}); give each its own id"))
             seen.setdefault(entry.id, index)
-    from ..evaluation.capacitor_codes import tolerance_window_error
-
     for index, capacitor in enumerate(nameplate.capacitors):
         error = tolerance_window_error(capacitor.tolerance)
         if error:

@@ -81,7 +81,7 @@ class LoadedVisit:
     document: Document
     model: VisitFile
     readings: dict[tuple[str, str], list[Reading]] = field(default_factory=dict)
-    # Sign-off records (integrity.SignatureFile), kept outside the files they cover.
+    # Sign-off records (signature_records.SignatureFile), kept outside the files they cover.
     signatures: list[Any] = field(default_factory=list)
     # Readings after adjustment or repair on the same visit (VisitFile.as_left).
     as_left: dict[tuple[str, str], list[Reading]] = field(default_factory=dict)
