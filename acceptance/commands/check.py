@@ -18,10 +18,11 @@ import textwrap
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
+from .. import check_cache
+from ..results import MachineResult, Verdict, VisitState, machine_to_json, to_json
+
 if TYPE_CHECKING:
     from ..loading import Job, LoadedMachine
-    from ..results import MachineResult
-
 
 # json.dumps(indent=2) puts the top-level keys two spaces in and the items of their lists four.
 _JSON_KEY_INDENT = "  "
@@ -29,8 +30,6 @@ _JSON_ITEM_INDENT = "    "
 
 
 def _marks() -> tuple[dict, dict]:
-    from ..results import Verdict, VisitState
-
     marks = {
         Verdict.PASS: "✓", Verdict.CONDITIONAL_PASS: "≈✓", Verdict.CONDITIONAL_FAIL: "≈✗",
         Verdict.FAIL: "✗", Verdict.UNDETERMINED: "?", Verdict.NOT_TESTED: "○",
@@ -51,8 +50,6 @@ def register(parser: argparse.ArgumentParser) -> None:
 
 def machine_lines(machine: MachineResult, show_all: bool = False) -> list[str]:
     """One machine's section of the summary: its visits and what needs attention."""
-    from ..results import Verdict
-
     _MARK, _STATE_MARK = _marks()  # noqa: N806 - tables, read like constants
     lines = ["", f"{machine.name} [{machine.id}]"]
     if not machine.visits:
@@ -97,16 +94,12 @@ def machine_lines(machine: MachineResult, show_all: bool = False) -> list[str]:
 
 def totals_line(states: list[str]) -> str:
     """The last line of the summary: how many visits are in each state."""
-    from ..results import VisitState
-
     counts = {state: states.count(state.value) for state in VisitState}
     return f"{len(states)} visits: " + ", ".join(
         f"{count} {state.value}" for state, count in counts.items() if count)
 
 
 def run(args: argparse.Namespace) -> int:
-    from .. import check_cache
-
     variant = "json" if args.json else ("all" if args.all else "summary")
     cache = (check_cache.open_cache(args.job, variant)
              if not os.environ.get("ACCEPTANCE_NO_CACHE") else None)
@@ -127,8 +120,6 @@ def _evaluate(root: Path, variant: str, machines: list[str] | None
     machine, each with its printed text, its visits' states and its sign-off report."""
     from ..evaluation import evaluate_job
     from ..loading import load_job
-    from ..results import machine_to_json, to_json
-
     job = load_job(root, machines=machines)  # raises InputError: nothing is cached then
     result = evaluate_job(job)
     loaded = {machine.id: machine for machine in job.machines}
@@ -156,8 +147,6 @@ def _evaluate(root: Path, variant: str, machines: list[str] | None
 
 
 def _print(variant: str, head: Any, sections: list[dict[str, Any]]) -> int:
-    from ..results import VisitState
-
     states = [state for section in sections for state in section["states"]]
     signatures = "".join(section["signatures"] for section in sections)
     if variant == "json":

@@ -14,6 +14,7 @@ import jinja2
 from markdown_it import MarkdownIt
 from markupsafe import Markup
 
+from ..integrity import SignatureStatus
 from ..resources import templates_dir
 from ..results import Verdict, VisitState
 
@@ -96,8 +97,6 @@ def _signature_badge(status: Any) -> Markup:
 
 
 def _unsigned(visit: Any) -> Any:
-    from ..integrity import SignatureStatus
-
     return SignatureStatus("unsigned")
 
 

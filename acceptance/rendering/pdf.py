@@ -18,12 +18,14 @@ import datetime as _dt
 import hashlib
 import io
 import mimetypes
+import os
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 from functools import partial
 from pathlib import Path
 from urllib.parse import unquote, urlsplit
 
+import pydyf
 from weasyprint import HTML, Attachment
 from weasyprint.urls import URLFetcher, URLFetcherResponse
 
@@ -155,10 +157,6 @@ def _relative_links(pdf, site_root: Path, base: Path) -> None:  # noqa: ANN001 -
     """Links to other pages of the site become relative to the PDF, as in the HTML: the
     absolute address of the folder the site was staged in neither exists after the build
     nor is the same twice."""
-    import os
-
-    import pydyf
-
     prefix = site_root.resolve().as_uri() + "/"
     base = base.resolve()
     for pdf_object in pdf.objects:

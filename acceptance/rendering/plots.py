@@ -17,7 +17,11 @@ from dataclasses import dataclass
 
 import jinja2
 import numpy as np
+from markupsafe import Markup
 from numpy.typing import ArrayLike, NDArray
+
+from ..history import trend_series
+from ..units import Dimension, UnitError, parse_quantity
 
 __all__ = [
     "Bar",
@@ -588,8 +592,6 @@ def render_trend_svg(env: jinja2.Environment, traces: Sequence[TrendInput],
 
 def _display_factor(base_unit: str, display_unit: str | None) -> tuple[str, float]:
     """The unit to show a trend in and the base-unit value of one of it."""
-    from ..units import Dimension, UnitError, parse_quantity
-
     try:
         base = parse_quantity(f"1 {base_unit}", *Dimension) if base_unit else None
         shown = parse_quantity(f"1 {display_unit}", *Dimension) if display_unit else None
@@ -605,10 +607,6 @@ def render_machine_trends(env: jinja2.Environment, machine: object) -> list[dict
 
     Returns a list of ``{"item", "title", "quantity", "svg"}``, in checklist order.
     """
-    from markupsafe import Markup
-
-    from ..history import trend_series
-
     dates = {visit.id: visit.date for visit in machine.visits}  # type: ignore[attr-defined]
     plots: list[dict[str, object]] = []
     trend_series_of = trend_series(machine)  # type: ignore[arg-type]

@@ -14,6 +14,7 @@ import json
 from collections.abc import Iterable, Mapping
 from typing import Any
 
+from ..integrity import SignatureStatus
 from ..results import JobResult, VisitState
 
 __all__ = ["INDEX_DATA_NAME", "DEFICIENCIES_CSV_NAME", "index_options", "index_data_script",
@@ -88,8 +89,6 @@ def deficiencies_csv(rows: Iterable[Mapping[str, Any]], result: JobResult,
 def review_globals(signatures: Mapping[str, Any], package_pdf: bool) -> dict[str, Any]:
     """Template globals for sign-off states and the index: ``signature_of(visit)`` takes a
     visit result or a mapping with ``machine`` and ``visit``."""
-    from ..integrity import SignatureStatus
-
     unsigned = SignatureStatus("unsigned")
 
     def signature_of(thing: Any) -> Any:
