@@ -281,7 +281,8 @@ def _common_basis(before: _Value, before_element: ElementResult, after: _Value,
     """Both values on one basis, converting with a capture of the same visit, or why not."""
     if before.basis == after.basis:
         return before, after
-    phrase = {None: "an unknown basis", **_BASIS_PHRASE}
+    phrase: dict[str | None, str] = {None: "an unknown basis"}
+    phrase.update(_BASIS_PHRASE)
     if before.basis is None or after.basis is None:
         return (f"the baseline reads on {phrase[before.basis]} and this visit on "
                 f"{phrase[after.basis]}; write 'RMS', 'avg' or 'd.c.' after the value or "
@@ -328,10 +329,11 @@ def _change(item_key: str, title: str, element: str | None, rule: CompareRule,
 
     def not_comparable(reason: str, before: _Value | None = None,
                        after: _Value | None = None) -> Change:
-        unit = (before or after).unit if (before or after) else ""
+        known = before or after
+        unit = known.unit if known else ""
         return Change(
             item=item_key, title=title, element=element,
-            quantity=(before or after).label if (before or after) else rule.quantity,
+            quantity=known.label if known else rule.quantity,
             unit=unit, baseline_value=before.value if before else None,
             value=after.value if after else None,
             baseline_text=_format(before.value, unit, display_unit) if before else "—",

@@ -29,7 +29,7 @@ _JSON_KEY_INDENT = "  "
 _JSON_ITEM_INDENT = "    "
 
 
-def _marks() -> tuple[dict, dict]:
+def _marks() -> tuple[dict[Verdict, str], dict[VisitState, str]]:
     marks = {
         Verdict.PASS: "✓", Verdict.CONDITIONAL_PASS: "≈✓", Verdict.CONDITIONAL_FAIL: "≈✗",
         Verdict.FAIL: "✗", Verdict.UNDETERMINED: "?", Verdict.NOT_TESTED: "○",

@@ -8,12 +8,20 @@ from __future__ import annotations
 
 import dataclasses
 from collections import Counter
+from collections.abc import Sequence
 
 from .. import __version__
 from ..computations import ComputationError
 from ..history import compare_rule, compare_visits, part_behaviour, select_baseline
 from ..loading import Job, LoadedChecklist, LoadedMachine, LoadedVisit, Reading, element_names
-from ..model import ChecklistItem, LimitOverride
+from ..model import (
+    BondingPoint,
+    CapacitorSpec,
+    ChecklistItem,
+    LimitOverride,
+    SurveyPoint,
+    WindingSpec,
+)
 from ..results import (
     ChecklistResult,
     CheckResult,
@@ -40,6 +48,8 @@ from .rules import Context, Outcome
 
 __all__ = ["evaluate_job", "visit_state"]
 
+ElementSpec = WindingSpec | CapacitorSpec | SurveyPoint | BondingPoint
+
 
 def _applies(item: ChecklistItem, machine: LoadedMachine) -> bool:
     nameplate = machine.model.nameplate
@@ -60,12 +70,14 @@ def _applies(item: ChecklistItem, machine: LoadedMachine) -> bool:
     }[item.applies_when]
 
 
-def _element_spec(item: ChecklistItem, machine: LoadedMachine, element: str | None):  # noqa: ANN202
+def _element_spec(item: ChecklistItem, machine: LoadedMachine,
+                  element: str | None) -> ElementSpec | None:
     nameplate = machine.model.nameplate
-    pool = {"winding": nameplate.windings, "capacitor": nameplate.capacitors,
-            "survey_point": machine.model.survey_points,
-            "bonding_point": machine.model.bonding_points}.get(item.per, [])
-    return next((entry for entry in pool if entry.id == element), None)
+    pools: dict[str, Sequence[ElementSpec]] = {
+        "winding": nameplate.windings, "capacitor": nameplate.capacitors,
+        "survey_point": machine.model.survey_points,
+        "bonding_point": machine.model.bonding_points}
+    return next((entry for entry in pools.get(item.per, ()) if entry.id == element), None)
 
 
 def _override(job: Job, key: str, check_id: str) -> LimitOverride | None:

@@ -12,6 +12,8 @@ from __future__ import annotations
 
 import functools
 from dataclasses import dataclass
+from datetime import date
+from typing import TYPE_CHECKING
 
 from ..computations import ComputationError
 from ..computations import uncertainty as unc
@@ -19,6 +21,9 @@ from ..model import AccuracyEntry, ChecklistItem, Instrument
 from ..results import Verdict
 from ..units import Dimension, Quantity, format_value, parse_quantity
 from .rules import Outcome
+
+if TYPE_CHECKING:
+    from ..captures import CaptureAnalysis
 
 __all__ = ["Assessment", "ReadingUncertainty", "assess", "reading_uncertainty"]
 
@@ -112,7 +117,7 @@ def reading_uncertainty(instrument: Instrument | None, reading: Quantity,
 
 
 def assess(outcome: Outcome, uncertainty: ReadingUncertainty | str, rule_name: str,
-           instrument: Instrument | None, visit_date, item: ChecklistItem,  # noqa: ANN001
+           instrument: Instrument | None, visit_date: date, item: ChecklistItem,
            ) -> Assessment:
     """Apply the decision rule and the calibration state to one check's outcome."""
     verdict = outcome.verdict
@@ -156,7 +161,8 @@ def assess(outcome: Outcome, uncertainty: ReadingUncertainty | str, rule_name: s
     return Assessment(verdict, decision, conformance, "; ".join(messages) or None)
 
 
-def capture_findings(instrument: Instrument | None, capture) -> list[str]:  # noqa: ANN001
+def capture_findings(instrument: Instrument | None,
+                     capture: CaptureAnalysis | None) -> list[str]:
     """What the capture says about the instrument's reading on this waveform."""
     if capture is None:
         return []
@@ -180,7 +186,7 @@ def capture_findings(instrument: Instrument | None, capture) -> list[str]:  # no
 
 
 def instrument_findings(instrument: Instrument | None, item: ChecklistItem,
-                        working_voltage: Quantity | None, visit_date) -> list[str]:  # noqa: ANN001
+                        working_voltage: Quantity | None, visit_date: date) -> list[str]:
     """Safety and suitability findings about the instrument itself (not the reading)."""
     findings: list[str] = []
     if instrument is None:

@@ -20,8 +20,10 @@ from ..units import Basis, Dimension, Quantity, format_value, parse_quantity
 from . import engineering as eng
 
 if TYPE_CHECKING:
+    from ..captures import CaptureAnalysis
+    from ..computations.waveform import WaveformMetrics
     from ..loading import Job, LoadedMachine, LoadedVisit, Reading
-    from ..model import ChecklistItem
+    from ..model import ChecklistItem, Nameplate
 
 __all__ = ["EVALUATORS", "Context", "Evaluate", "Outcome", "Rule", "SYMBOLS"]
 
@@ -46,7 +48,7 @@ class Context:
     element: Any  # WindingSpec | CapacitorSpec | SurveyPoint | None
 
     @property
-    def nameplate(self):  # noqa: ANN201 - the model's Nameplate
+    def nameplate(self) -> Nameplate:
         return self.machine.model.nameplate
 
     def reading_of(self, key: str, element: str | None) -> Reading | None:
@@ -263,8 +265,8 @@ def _current_against(reading: Reading, context: Context, params: dict[str, Any])
     return _compare(tolerance, reading.value.value, steps)
 
 
-def _captured_current(reading: Reading):  # noqa: ANN202 - WaveformMetrics | None
-    capture = reading.capture
+def _captured_current(reading: Reading) -> WaveformMetrics | None:
+    capture: CaptureAnalysis | None = reading.capture
     if capture is None or capture.current_channel is None:
         return None
     for channel in capture.channels:

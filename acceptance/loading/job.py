@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from collections.abc import Collection
+from collections.abc import Collection, Sequence
 from pathlib import Path
 
 from ..capacitor_codes import tolerance_window_error
@@ -10,11 +10,15 @@ from ..computations import ComputationError
 from ..computations.uncertainty import ACCURACY_FORMS, parse_accuracy_specification
 from ..errors import InputError, Problem
 from ..model import (
+    BondingPoint,
+    CapacitorSpec,
     Instrument,
     InstrumentRegister,
     JobFile,
     MachineFile,
+    SurveyPoint,
     VisitFile,
+    WindingSpec,
 )
 from ..rule_specs import SPECS
 from ..signature_records import SIGNATURES_DIR, SignatureFile
@@ -74,7 +78,7 @@ def load_job(root: Path, include_visits: bool = True,
         instruments_document = _load_document(root / INSTRUMENTS_FILE, root, problems)
         register = (_validate(InstrumentRegister, instruments_document, problems)
                     if instruments_document else None)
-        if register:
+        if register and instruments_document is not None:
             for index, instrument in enumerate(register.instruments):
                 if instrument.id in instruments:
                     problems.append(instruments_document.problem(
@@ -267,11 +271,13 @@ def _check_machine(machine: LoadedMachine, checklists: dict[str, LoadedChecklist
                 ("checklists", index),
                 f"no checklist '{checklist_id}'{_suggest(checklist_id, sorted(checklists))}"))
     nameplate = machine.model.nameplate
-    for kind, where, entries in (
+    pools: tuple[tuple[str, KeyPath, Sequence[WindingSpec | CapacitorSpec | SurveyPoint
+                                              | BondingPoint]], ...] = (
             ("winding", ("nameplate", "windings"), nameplate.windings),
             ("capacitor", ("nameplate", "capacitors"), nameplate.capacitors),
             ("survey point", ("survey_points",), machine.model.survey_points),
-            ("bonding point", ("bonding_points",), machine.model.bonding_points)):
+            ("bonding point", ("bonding_points",), machine.model.bonding_points))
+    for kind, where, entries in pools:
         seen: dict[str, int] = {}
         for index, entry in enumerate(entries):
             if entry.id in seen:

@@ -125,7 +125,7 @@ def element_names(kind: str, nameplate: Nameplate, survey_ids: list[str],
         return ["L1", "L2", "L3"] if three else ["L"]
     if kind == "isolation_point":
         if three:
-            points = ["L1-L2", "L2-L3", "L3-L1", "L1-PE", "L2-PE", "L3-PE"]
+            points: list[str | None] = ["L1-L2", "L2-L3", "L3-L1", "L1-PE", "L2-PE", "L3-PE"]
             return [*points, "N-PE"] if nameplate.neutral else points
         return ["L-N", "L-PE", "N-PE"]
     if kind == "winding":

@@ -198,6 +198,7 @@ def nice_ticks(low: float, high: float,
         stop = math.ceil(high / candidate - 1e-9)
         if best is None or (stop - start) * candidate < (best[2] - best[1]) * best[0] - 1e-12:
             best = (candidate, start, stop)
+    assert best is not None  # the loop runs at least once
     step, first, last = best
     values = tuple(round(k * step, 12) + 0.0 for k in range(first, last + 1))
     return values[0], values[-1], values
