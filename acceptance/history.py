@@ -232,7 +232,7 @@ class _Value:
     adjustments: tuple[str, ...] = ()
 
 
-def _value_of(item: ItemResult, element: ElementResult, rule: CompareRule) -> _Value | str:
+def _value_of(element: ElementResult, rule: CompareRule) -> _Value | str:
     """The value ``rule`` compares, or why there is none."""
     if element.value is None:
         return "not recorded" if element.verdict.value in ("not tested", "not applicable") \
@@ -342,8 +342,8 @@ def _change(item_key: str, title: str, element: str | None, rule: CompareRule,
             classification=ChangeClass.NOT_COMPARABLE, thresholds=thresholds,
             source=rule.source, reason=reason)
 
-    before = _value_of(*found_before[:2], rule) if found_before else "not recorded"
-    after = _value_of(*found_after[:2], rule) if found_after else "not recorded"
+    before = _value_of(found_before[1], rule) if found_before else "not recorded"
+    after = _value_of(found_after[1], rule) if found_after else "not recorded"
     if isinstance(before, str) and isinstance(after, str):
         return None  # on neither visit: nothing to say
     if isinstance(before, str):
@@ -482,14 +482,12 @@ def compare_visits(machine_result: MachineResult, baseline: VisitResult | str,
                            changes=_changes(base, later))
 
 
-def part_behaviour(machine_result: MachineResult, visit: VisitResult | str,
-                   elements: dict[str, str] | None = None) -> tuple[PartReplacement, ...]:
+def part_behaviour(machine_result: MachineResult,
+                   visit: VisitResult | str) -> tuple[PartReplacement, ...]:
     """Each part replaced on ``visit`` with its element's values before and after the swap.
 
     *Before* is the visit's as-found reading where it re-measured the item as left, else
-    the visit before it; *after* is the as-left reading, else the visit's own. ``elements``
-    maps an element id to the item keys measured on it (default: every compared item that
-    has that element).
+    the visit before it; *after* is the as-left reading, else the visit's own.
     """
     later = _visit(machine_result, visit)
     index = [v.id for v in machine_result.visits].index(later.id)
@@ -595,7 +593,7 @@ def trend_series(machine_result: MachineResult) -> tuple[TrendSeries, ...]:
                     continue
                 if order.index(visit.id) < order.index(base.id):
                     found = effective_element(visit, item.key, element)
-                    value = _value_of(*found[:2], rule) if found else None
+                    value = _value_of(found[1], rule) if found else None
                     if isinstance(value, _Value):
                         points.append(TrendPoint(visit.id, visit.date, value.value,
                                                  _format(value.value, value.unit, item.unit),

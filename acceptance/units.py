@@ -214,13 +214,6 @@ class Quantity:
     def __str__(self) -> str:
         return self.format()
 
-    @classmethod
-    def of(cls, value: float, dimension: Dimension, unit: str | None = None) -> Quantity:
-        """Build from a value already expressed in ``unit`` (default: the base unit)."""
-        unit = unit if unit is not None else _SI_UNIT[dimension]
-        factor = _UNITS[unit][1] if unit else 1.0
-        return cls(value * factor, dimension, unit)
-
 
 def format_number(value: float, digits: int = 4) -> str:
     """Round to ``digits`` significant figures without scientific notation for field values."""

@@ -50,7 +50,7 @@ def register(parser: argparse.ArgumentParser) -> None:
 
 def machine_lines(machine: MachineResult, show_all: bool = False) -> list[str]:
     """One machine's section of the summary: its visits and what needs attention."""
-    _MARK, _STATE_MARK = _marks()  # noqa: N806 - tables, read like constants
+    _MARK, _STATE_MARK = _marks()  # tables, read like constants
     lines = ["", f"{machine.name} [{machine.id}]"]
     if not machine.visits:
         lines.append("  no visits recorded")

@@ -126,7 +126,7 @@ def _reference(name: str, context: Context) -> Quantity | None:
     raise KeyError(name)  # pragma: no cover - validated against REFERENCES
 
 
-def _symbol(reading: Reading, context: Context) -> str:
+def _symbol(reading: Reading) -> str:
     assert isinstance(reading.value, Quantity)
     return SYMBOLS[reading.value.dimension]
 
@@ -153,7 +153,7 @@ def _bound(kind: str) -> Callable[[Reading, Context, dict[str, Any]], Outcome]:
         assert isinstance(reading.value, Quantity)
         limit = parse_quantity(params["limit"], reading.value.dimension)
         unit = limit.unit or _display_unit(reading, context)
-        symbol = _symbol(reading, context)
+        symbol = _symbol(reading)
         tolerance = (Tolerance(limit.dimension, symbol, unit, None, limit.value) if kind == "max"
                      else Tolerance(limit.dimension, symbol, unit, limit.value, None))
         return _compare(tolerance, reading.value.value)
@@ -165,7 +165,7 @@ def _window(reading: Reading, context: Context, params: dict[str, Any]) -> Outco
     assert isinstance(reading.value, Quantity)
     lower = parse_quantity(params["lower"], reading.value.dimension)
     upper = parse_quantity(params["upper"], reading.value.dimension)
-    tolerance = Tolerance(lower.dimension, _symbol(reading, context),
+    tolerance = Tolerance(lower.dimension, _symbol(reading),
                           lower.unit or _display_unit(reading, context), lower.value, upper.value)
     return _compare(tolerance, reading.value.value)
 
@@ -182,7 +182,7 @@ def _relative_to(reading: Reading, context: Context, params: dict[str, Any]) -> 
     lower = reference.value * (1 + lower_pct / 100)
     upper = reference.value * (1 + upper_pct / 100)
     unit = reference.unit or _display_unit(reading, context)
-    tolerance = Tolerance(reference.dimension, _symbol(reading, context), unit, lower, upper)
+    tolerance = Tolerance(reference.dimension, _symbol(reading), unit, lower, upper)
     steps = (
         Step(f"nameplate {label}", reference.format(), reference.value, reference.base_unit),
         Step("window", f"{_pct(lower_pct)} … {_pct(upper_pct)} of {reference.format()}",

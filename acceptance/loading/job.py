@@ -23,7 +23,7 @@ from ..model import (
 from ..rule_specs import SPECS
 from ..signature_records import SIGNATURES_DIR, SignatureFile
 from ..units import UnitError, parse_quantity
-from ..yamlfile import Document, KeyPath, format_key_path
+from ..yamlfile import Document, KeyPath
 from .checklists import _bounds_order, _load_checklists, _voltage_item_problem
 from .loaded import (
     _UNPRINTABLE_PATH,
@@ -412,5 +412,3 @@ def _check_attachments(visit: LoadedVisit, machine_folder: Path,
                 path, f"attachment '{attachment.path}' not found in {machine_folder.name}/"))
 
 
-def format_problem_path(path: KeyPath) -> str:  # re-exported for callers
-    return format_key_path(path)

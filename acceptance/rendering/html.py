@@ -77,7 +77,7 @@ def render_markdown(text: str | None) -> Markup:
     """Markdown with raw HTML off and links limited to http, https, mailto and relative."""
     if not text:
         return Markup("")
-    return Markup(_MD.render(text))  # noqa: S704 - markdown-it escapes; raw HTML is off
+    return Markup(_MD.render(text))  # markdown-it escapes; raw HTML is off
 
 
 def _verdict_badge(verdict: Verdict | VisitState) -> Markup:
