@@ -222,6 +222,29 @@ def test_every_known_breach_is_still_there():
     assert stale == set(), f"remove from KNOWN_LAYER_BREACHES: {sorted(stale)}"
 
 
+# What the lowest modules may import of the package: nothing above them.
+LOW_LAYERS: dict[str, tuple[str, ...]] = {
+    f"{ROOT}.computations": (f"{ROOT}.computations",),
+    f"{ROOT}.units": (),
+    f"{ROOT}.errors": (),
+    f"{ROOT}.signature_records": (),
+    f"{ROOT}.model": (f"{ROOT}.units",),
+    f"{ROOT}.rule_specs": (f"{ROOT}.computations", f"{ROOT}.units", f"{ROOT}.model"),
+    f"{ROOT}.capacitor_codes": (f"{ROOT}.computations",),
+}
+
+
+@pytest.mark.parametrize("layer", sorted(LOW_LAYERS))
+def test_low_layers_import_nothing_above_them(layer):
+    allowed = LOW_LAYERS[layer]
+    above = sorted({f"{found.importer} imports {found.target}" for found in IMPORTS
+                    if (found.importer == layer or found.importer.startswith(layer + "."))
+                    and found.target in MODULES
+                    and not any(found.target == a or found.target.startswith(a + ".")
+                                for a in allowed)})
+    assert above == []
+
+
 def _lazy_key(found: Import) -> tuple[str, str] | None:
     for key in ((found.importer, found.target), (found.importer, "*")):
         if key in LAZY_IMPORTS:
