@@ -113,10 +113,7 @@ def _voltage_unbalance(reading: Reading, context: Context, params: dict[str, Any
             return Outcome(Verdict.UNDETERMINED, tolerance.describe(),
                            message=f"needs all three line voltages; {line} is not recorded")
         readings.append(found.value.value)
-    try:
-        both = sup.voltage_unbalance(*readings)
-    except ComputationError as error:
-        return Outcome(Verdict.UNDETERMINED, tolerance.describe(), message=str(error))
+    both = sup.voltage_unbalance(*readings)
     nema_pct, sequence_pct = 100 * both.nema, 100 * both.sequence
     derating = sup.nema_derating_factor(both.nema)
     steps = [
@@ -316,10 +313,7 @@ def _cable_voltage_drop(reading: Reading, context: Context, params: dict[str, An
                                f"{basis.phrase if basis else 'of unknown basis'}")
     conductor_temperature = _quantity_param(params, "conductor_temperature", "70 °C",
                                             Dimension.TEMPERATURE)
-    try:
-        row = res.iec_60228_resistance(cable.cross_section.value, cable.conductor_class)
-    except ComputationError as error:
-        return Outcome(Verdict.UNDETERMINED, tolerance.describe(), message=str(error))
+    row = res.iec_60228_resistance(cable.cross_section.value, cable.conductor_class)
     power_factor = cable.power_factor if cable.power_factor is not None else 1.0
     drop = sup.cable_voltage_drop(
         current, cable.length.value, row.resistance_per_length,
