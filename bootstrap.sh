@@ -2,7 +2,7 @@
 # Set up everything acceptance needs, then build the demo or run the tests.
 #
 #   ./bootstrap.sh demo   set up, build demo_job/ into demo_site/ and print where to open it
-#   ./bootstrap.sh test   set up (with test tools) and run the whole test suite
+#   ./bootstrap.sh test   set up (with test tools), type-check the package, run the whole test suite
 #
 # System libraries for WeasyPrint (Pango; HarfBuzz's subsetter, without which font
 # embedding silently falls back to a path 2-3x slower) and fonts are installed with
@@ -63,5 +63,7 @@ extras=""
 if [ "$mode" = demo ]; then
   exec .venv/bin/acceptance build demo_job -o demo_site
 else
+  # Types first: a wrong shape between the layers fails in seconds, before the long suite.
+  .venv/bin/mypy acceptance
   exec .venv/bin/python -m pytest -q
 fi

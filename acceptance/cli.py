@@ -5,7 +5,9 @@ from __future__ import annotations
 import argparse
 import importlib
 import os
+import shlex
 import sys
+import traceback
 from collections.abc import Sequence
 
 from . import __version__
@@ -34,10 +36,17 @@ def _parser() -> argparse.ArgumentParser:
         description="Commissioning readings to computed verdicts, an offline site and PDF records.",
     )
     parser.add_argument("--version", action="version", version=f"acceptance {__version__}")
+    parser.add_argument("--debug", action="store_true",
+                        help="on an internal error, show the traceback (for a bug report)")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", required=True)
     for name, help_text in COMMANDS:
         sub.add_parser(name, help=help_text, add_help=False)
     return parser
+
+
+# An error in the tool itself, not in the input: distinct from 1 (a visit did not pass),
+# 2 (input problems) and 3 (a build could not be completed), so scripts can tell them apart.
+INTERNAL_ERROR_EXIT = 4
 
 
 def main(argv: Sequence[str] | None = None) -> int:
@@ -46,18 +55,16 @@ def main(argv: Sequence[str] | None = None) -> int:
     # alter that, and skipping the plugin search (every installed package's entry points)
     # shortens each command's start-up.
     os.environ.setdefault("PYDANTIC_DISABLE_PLUGINS", "__all__")
+    debug = bool(argv) and argv[0] == "--debug"
+    if debug:
+        argv = argv[1:]
     top = _parser()
     names = [name for name, _ in COMMANDS]
     if not argv or argv[0] not in names:
-        args = top.parse_args(argv)  # prints help / version / error and exits
+        top.parse_args(argv)  # prints help / version / error and exits
         return 2
-    name = argv[0]
-    module = importlib.import_module(f".commands.{name}", __package__)
-    parser = argparse.ArgumentParser(prog=f"acceptance {name}", description=dict(COMMANDS)[name])
-    module.register(parser)
-    args = parser.parse_args(argv[1:])
     try:
-        return int(module.run(args))
+        return _run(argv)
     except InputError as error:
         # One problem per line, each starting with its location, however many there are:
         # editors and scripts read 'file:line:column:' at the start of a line.
@@ -69,6 +76,30 @@ def main(argv: Sequence[str] | None = None) -> int:
     except KeyboardInterrupt:
         print("interrupted; nothing was replaced", file=sys.stderr)
         return 130
+    except Exception as error:
+        # A fault of the tool, whatever the input: say so plainly and ask for a report; the
+        # traceback is for whoever fixes it (--debug), not for the person at the machine.
+        if debug:
+            traceback.print_exc(file=sys.stderr)
+        print(f"internal error: {type(error).__name__}: {error}", file=sys.stderr)
+        print(f"This is a fault in acceptance {__version__}, not in your files. Please report "
+              f"it with the command line ({_command_line(argv)}) and the version; "
+              f"run it again with 'acceptance --debug ...' to include the traceback.",
+              file=sys.stderr)
+        return INTERNAL_ERROR_EXIT
+
+
+def _run(argv: list[str]) -> int:
+    name = argv[0]
+    module = importlib.import_module(f".commands.{name}", __package__)
+    parser = argparse.ArgumentParser(prog=f"acceptance {name}", description=dict(COMMANDS)[name])
+    module.register(parser)
+    args = parser.parse_args(argv[1:])
+    return int(module.run(args))
+
+
+def _command_line(argv: list[str]) -> str:
+    return shlex.join(["acceptance", *argv])
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -207,7 +207,7 @@ class _Value:
     adjustments: tuple[str, ...] = ()
 
 
-def _value_of(item: ItemResult, element: ElementResult, rule: CompareRule) -> _Value | str:
+def _value_of(element: ElementResult, rule: CompareRule) -> _Value | str:
     """The value ``rule`` compares, or why there is none."""
     if element.value is None:
         return "not recorded" if element.verdict.value in ("not tested", "not applicable") \
@@ -256,7 +256,8 @@ def _common_basis(before: _Value, before_element: ElementResult, after: _Value,
     """Both values on one basis, converting with a capture of the same visit, or why not."""
     if before.basis == after.basis:
         return before, after
-    phrase = {None: "an unknown basis", **_BASIS_PHRASE}
+    phrase: dict[str | None, str] = {None: "an unknown basis"}
+    phrase.update(_BASIS_PHRASE)
     if before.basis is None or after.basis is None:
         return (f"the baseline reads on {phrase[before.basis]} and this visit on "
                 f"{phrase[after.basis]}; write 'RMS', 'avg' or 'd.c.' after the value or "
@@ -303,10 +304,11 @@ def _change(item_key: str, title: str, element: str | None, rule: CompareRule,
 
     def not_comparable(reason: str, before: _Value | None = None,
                        after: _Value | None = None) -> Change:
-        unit = (before or after).unit if (before or after) else ""
+        known = before or after
+        unit = known.unit if known else ""
         return Change(
             item=item_key, title=title, element=element,
-            quantity=(before or after).label if (before or after) else rule.quantity,
+            quantity=known.label if known else rule.quantity,
             unit=unit, baseline_value=before.value if before else None,
             value=after.value if after else None,
             baseline_text=_format(before.value, unit, display_unit) if before else "—",
@@ -315,8 +317,8 @@ def _change(item_key: str, title: str, element: str | None, rule: CompareRule,
             classification=ChangeClass.NOT_COMPARABLE, thresholds=thresholds,
             source=rule.source, reason=reason)
 
-    before = _value_of(*found_before[:2], rule) if found_before else "not recorded"
-    after = _value_of(*found_after[:2], rule) if found_after else "not recorded"
+    before = _value_of(found_before[1], rule) if found_before else "not recorded"
+    after = _value_of(found_after[1], rule) if found_after else "not recorded"
     if isinstance(before, str) and isinstance(after, str):
         return None  # on neither visit: nothing to say
     if isinstance(before, str):
@@ -396,7 +398,7 @@ def _changes(before_visit: VisitResult, after_visit: VisitResult,
     wanted = set(keys) if keys is not None else None
     changes: list[Change] = []
     for item in _compared_items(after_visit, before_visit):
-        if wanted is not None and item.key not in wanted:
+        if (wanted is not None and item.key not in wanted) or item.compare is None:
             continue
         names: list[str | None] = []
         for visit in (after_visit, before_visit):
@@ -473,9 +475,7 @@ def part_behaviour(machine_result: MachineResult, visit: VisitResult | str,
     """Each part replaced on ``visit`` with its element's values before and after the swap.
 
     *Before* is the visit's as-found reading where it re-measured the item as left, else
-    the visit before it; *after* is the as-left reading, else the visit's own. ``elements``
-    maps an element id to the item keys measured on it (default: every compared item that
-    has that element).
+    the visit before it; *after* is the as-left reading, else the visit's own.
     """
     later = _visit(machine_result, visit)
     index = [v.id for v in machine_result.visits].index(later.id)
@@ -563,7 +563,7 @@ def trend_series(machine_result: MachineResult) -> tuple[TrendSeries, ...]:
                     continue
                 if order.index(visit.id) < order.index(base.id):
                     found = effective_element(visit, item.key, element)
-                    value = _value_of(*found[:2], rule) if found else None
+                    value = _value_of(found[1], rule) if found else None
                     if isinstance(value, _Value):
                         points.append(TrendPoint(visit.id, visit.date, value.value,
                                                  _format(value.value, value.unit, item.unit),

@@ -29,15 +29,23 @@ import os
 from collections.abc import Iterable, Iterator
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import TYPE_CHECKING, Any, Literal
+from typing import Any, Literal
 
-from pydantic import BaseModel, ConfigDict, Field
+import yaml
+from pydantic import ValidationError
 
 from . import __version__
-from .errors import AcceptanceError
-
-if TYPE_CHECKING:  # loading imports this module lazily; only types are needed here
-    from .loading import Job, LoadedMachine, LoadedVisit
+from .errors import AcceptanceError, InputError
+from .loading import Job, LoadedMachine, LoadedVisit, load_job
+from .signature_records import (
+    SIGNATURE_SCHEMA,
+    SIGNATURES_DIR,
+    SignatureEntry,
+    SignatureFile,
+    SignatureKey,
+    signature_path,
+)
+from .yamlfile import load_yaml
 
 __all__ = [
     "SIGNATURE_SCHEMA", "SIGNED_INPUTS_SCHEMA", "SIGNATURES_DIR", "MANIFEST_SIGNATURE_NAME",
@@ -49,9 +57,7 @@ __all__ = [
     "signature_statuses", "sign_manifest", "verify_site", "verify_job",
 ]
 
-SIGNATURE_SCHEMA = "acceptance-signature/1"
 SIGNED_INPUTS_SCHEMA = "acceptance-signed-inputs/1"
-SIGNATURES_DIR = "signatures"
 MANIFEST_SIGNATURE_NAME = "MANIFEST.sha256.sig"
 
 # Fields of job.yaml that describe the job and decide no verdict; renaming the site or the
@@ -267,42 +273,6 @@ def _verify(public_raw: bytes, signature_b64: str, message: bytes) -> bool:
 # ------------------------------------------------------------------ signature records
 
 
-class _Strict(BaseModel):
-    model_config = ConfigDict(extra="forbid", frozen=True)
-
-
-class SignatureKey(_Strict):
-    algorithm: Literal["ed25519"] = "ed25519"
-    public_key: str = Field(description="raw 32-byte public key, base64")
-    fingerprint: str = Field(description="first 128 bits of the SHA-256 of the raw key, hex")
-
-
-class SignatureEntry(_Strict):
-    """One person's sign-off of one visit."""
-
-    name: str
-    role: str
-    signed_at: str = Field(description="UTC, ISO 8601, e.g. 2026-03-10T16:00:00Z")
-    tool_version: str
-    digest: str = Field(pattern=r"^sha256:[0-9a-f]{64}$")
-    inputs: dict[str, str]
-    key: SignatureKey | None = None
-    signature: str | None = Field(None, description="Ed25519 over the statement, base64")
-
-
-class SignatureFile(_Strict):
-    """``machines/<id>/signatures/<visit>.yaml``."""
-
-    schema_: Literal["acceptance-signature/1"] = Field(alias="schema")
-    machine: str
-    visit: str
-    signatures: list[SignatureEntry] = Field(min_length=1)
-
-
-def signature_path(machine_folder: Path, visit_id: str) -> Path:
-    return Path(machine_folder) / SIGNATURES_DIR / f"{visit_id}.yaml"
-
-
 def _statement(machine: str, visit: str, entry_name: str, role: str, signed_at: str,
                digest: str) -> bytes:
     return canonical_json({"schema": SIGNATURE_SCHEMA, "machine": machine, "visit": visit,
@@ -319,11 +289,6 @@ def signed_at_now() -> str:
 
 
 def _read_record(path: Path) -> SignatureFile:
-    from pydantic import ValidationError
-
-    from .errors import InputError
-    from .yamlfile import load_yaml
-
     try:
         document = load_yaml(path)
         return SignatureFile.model_validate(document.data)
@@ -334,8 +299,6 @@ def _read_record(path: Path) -> SignatureFile:
 
 
 def _write_record(path: Path, record: SignatureFile) -> None:
-    import yaml
-
     data = record.model_dump(by_alias=True, exclude_none=True)
     text = _HEADER + yaml.safe_dump(data, sort_keys=False, allow_unicode=True, width=100)
     path.parent.mkdir(parents=True, exist_ok=True)
@@ -633,8 +596,6 @@ def verify_site(site: Path, trusted: Iterable[bytes] | None = None,
 
 def verify_job(root: Path, trusted: Iterable[bytes] | None = None) -> SiteReport:
     """Check every signed visit of the job at ``root``: digest and signature."""
-    from .loading import load_job
-
     job = load_job(root)
     report = SiteReport("job")
     trusted_list = list(trusted) if trusted is not None else None

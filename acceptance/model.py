@@ -12,7 +12,7 @@ from __future__ import annotations
 import datetime as _dt
 import re
 from enum import Enum
-from typing import TYPE_CHECKING, Annotated, Any, Literal
+from typing import Annotated, Any, Literal
 
 from pydantic import (
     BaseModel,
@@ -35,7 +35,8 @@ __all__ = [
 ]
 
 
-def _quantity(*dimensions: Dimension, example: str) -> Any:
+def _parsed(*dimensions: Dimension) -> PlainValidator:
+    """A field read as a quantity of one of ``dimensions``."""
     def validate(value: Any) -> Quantity:
         if isinstance(value, Quantity):
             return value
@@ -44,38 +45,36 @@ def _quantity(*dimensions: Dimension, example: str) -> Any:
         except UnitError as error:
             raise ValueError(str(error)) from None
 
-    return Annotated[
-        Quantity,
-        PlainValidator(validate),
-        WithJsonSchema({"type": "string", "examples": [example],
-                        "description": " or ".join(d.value for d in dimensions) + " with unit"}),
-    ]
+    return PlainValidator(validate)
 
 
-if TYPE_CHECKING:  # a type checker sees the values the validators return
-    Voltage = Quantity
-    Current = Quantity
-    Resistance = Quantity
-    Capacitance = Quantity
-    Frequency = Quantity
-    Temperature = Quantity
-    TemperatureDifference = Quantity
-    Ratio = Quantity
-    Length = Quantity
-    Area = Quantity
-    Power = Quantity
-else:
-    Voltage = _quantity(Dimension.VOLTAGE, example="230 V")
-    Current = _quantity(Dimension.CURRENT, example="9.5 A")
-    Resistance = _quantity(Dimension.RESISTANCE, example="34.0 Ω")
-    Capacitance = _quantity(Dimension.CAPACITANCE, example="1000 µF")
-    Frequency = _quantity(Dimension.FREQUENCY, example="50 Hz")
-    Temperature = _quantity(Dimension.TEMPERATURE, example="20 °C")
-    TemperatureDifference = _quantity(Dimension.TEMPERATURE_DIFFERENCE, example="80 K")
-    Ratio = _quantity(Dimension.RATIO, example="5 %")
-    Length = _quantity(Dimension.LENGTH, example="18 m")
-    Area = _quantity(Dimension.AREA, example="2.5 mm²")
-    Power = _quantity(Dimension.POWER, example="2.2 kW")
+def _described(example: str, *dimensions: Dimension) -> WithJsonSchema:
+    """How such a field looks to an editor: a string with a unit."""
+    return WithJsonSchema({"type": "string", "examples": [example],
+                           "description": " or ".join(d.value for d in dimensions)
+                           + " with unit"})
+
+
+# Written out as Annotated aliases, not built by a function, so that a type checker sees a
+# Quantity in every field of these types.
+Voltage = Annotated[Quantity, _parsed(Dimension.VOLTAGE),
+                    _described("230 V", Dimension.VOLTAGE)]
+Current = Annotated[Quantity, _parsed(Dimension.CURRENT),
+                    _described("9.5 A", Dimension.CURRENT)]
+Resistance = Annotated[Quantity, _parsed(Dimension.RESISTANCE),
+                       _described("34.0 Ω", Dimension.RESISTANCE)]
+Capacitance = Annotated[Quantity, _parsed(Dimension.CAPACITANCE),
+                        _described("1000 µF", Dimension.CAPACITANCE)]
+Frequency = Annotated[Quantity, _parsed(Dimension.FREQUENCY),
+                      _described("50 Hz", Dimension.FREQUENCY)]
+Temperature = Annotated[Quantity, _parsed(Dimension.TEMPERATURE),
+                        _described("20 °C", Dimension.TEMPERATURE)]
+TemperatureDifference = Annotated[Quantity, _parsed(Dimension.TEMPERATURE_DIFFERENCE),
+                                  _described("80 K", Dimension.TEMPERATURE_DIFFERENCE)]
+Ratio = Annotated[Quantity, _parsed(Dimension.RATIO), _described("5 %", Dimension.RATIO)]
+Length = Annotated[Quantity, _parsed(Dimension.LENGTH), _described("18 m", Dimension.LENGTH)]
+Area = Annotated[Quantity, _parsed(Dimension.AREA), _described("2.5 mm²", Dimension.AREA)]
+Power = Annotated[Quantity, _parsed(Dimension.POWER), _described("2.2 kW", Dimension.POWER)]
 
 _DATE_RE = re.compile(r"^\d{4}-\d{2}-\d{2}$")
 
@@ -153,7 +152,7 @@ class CheckSpec(_Strict):
                           "that needs the readings of every element, such as voltage unbalance")
 
 
-AnyQuantity = _quantity(*Dimension, example="5 %")
+AnyQuantity = Annotated[Quantity, _parsed(*Dimension), _described("5 %", *Dimension)]
 
 
 class CompareSpec(_Strict):

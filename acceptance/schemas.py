@@ -7,8 +7,8 @@ from typing import Any
 
 from pydantic import BaseModel
 
-from .integrity import SignatureFile
 from .model import Checklist, InstrumentRegister, JobFile, MachineFile, VisitFile
+from .signature_records import SignatureFile
 
 __all__ = ["FILE_KINDS", "schema_documents", "schema_text"]
 

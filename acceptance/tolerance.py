@@ -8,9 +8,9 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from .units import Dimension, Quantity, format_value
+from .units import Dimension, format_value
 
-__all__ = ["Tolerance", "Window", "AtMost", "AtLeast", "margin_phrase"]
+__all__ = ["Tolerance"]
 
 
 def _slack(limit: float, value: float) -> float:
@@ -58,26 +58,3 @@ class Tolerance:
         if self.upper is not None:
             distances.append(value - self.upper)
         return max(distances) if distances else float("-inf")
-
-
-def Window(dimension: Dimension, symbol: str, unit: str, lower: float, upper: float,  # noqa: N802
-           digits: int = 4) -> Tolerance:
-    if lower > upper:
-        raise ValueError(f"lower limit {lower} is above upper limit {upper}")
-    return Tolerance(dimension, symbol, unit, lower, upper, digits)
-
-
-def AtMost(dimension: Dimension, symbol: str, unit: str, upper: float,  # noqa: N802
-           digits: int = 4) -> Tolerance:
-    return Tolerance(dimension, symbol, unit, None, upper, digits)
-
-
-def AtLeast(dimension: Dimension, symbol: str, unit: str, lower: float,  # noqa: N802
-            digits: int = 4) -> Tolerance:
-    return Tolerance(dimension, symbol, unit, lower, None, digits)
-
-
-def margin_phrase(tolerance: Tolerance, reading: Quantity) -> str:
-    distance = tolerance.distance_outside(reading.value)
-    word = "outside" if distance > 0 else "inside"
-    return f"{format_value(abs(distance), tolerance.dimension, tolerance.unit)} {word} the limit"

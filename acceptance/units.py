@@ -12,6 +12,7 @@ the reading's *basis*, never silently dropped.
 from __future__ import annotations
 
 import decimal
+import difflib
 import functools
 import math
 import re
@@ -213,13 +214,6 @@ class Quantity:
     def __str__(self) -> str:
         return self.format()
 
-    @classmethod
-    def of(cls, value: float, dimension: Dimension, unit: str | None = None) -> Quantity:
-        """Build from a value already expressed in ``unit`` (default: the base unit)."""
-        unit = unit if unit is not None else _SI_UNIT[dimension]
-        factor = _UNITS[unit][1] if unit else 1.0
-        return cls(value * factor, dimension, unit)
-
 
 def format_number(value: float, digits: int = 4) -> str:
     """Round to ``digits`` significant figures without scientific notation for field values."""
@@ -410,8 +404,6 @@ def unit_dimension(unit: str) -> Dimension:
         raise UnitError("no unit is given; write the unit the value is read in, e.g. 'V'")
     info = _UNITS.get(spelled)
     if info is None:
-        import difflib
-
         close = difflib.get_close_matches(spelled, list(_UNITS), n=1, cutoff=0.5)
         if not close:
             close = [s for s in _UNITS if s.lower() == spelled.lower()]
@@ -436,8 +428,6 @@ def _split_qualifier(rest: str) -> tuple[str, Basis | None]:
 
 
 def _unit_hint(unit_text: str, expected: tuple[Dimension, ...]) -> str:
-    import difflib
-
     candidates = [s for s, (d, _f, _c) in _UNITS.items() if d in expected]
     # A wrong letter case ('MV' for 'mV', 'hz') is the commonest slip; offer that first.
     close = [c for c in candidates if c.lower() == unit_text.lower()][:1]

@@ -184,7 +184,7 @@ def _shared_node(root: yaml.Node) -> yaml.Node | None:
 
 
 class _NoAliasComposer(_Composer):
-    def compose_node(self, parent, index):  # type: ignore[override]
+    def compose_node(self, parent, index):  # PyYAML's own signature, untyped
         if self.check_event(yaml.AliasEvent):
             event = self.peek_event()
             raise yaml.MarkedYAMLError(
@@ -204,7 +204,7 @@ def _check_depth(text: str) -> None:
             if depth > MAX_DEPTH + 1:
                 raise yaml.MarkedYAMLError(
                     None, None, f"nesting deeper than {MAX_DEPTH} levels is not supported",
-                    event.start_mark)
+                    event.start_mark)  # type: ignore[arg-type]  # the stubs' C and Python Marks
         elif isinstance(event, yaml.CollectionEndEvent):
             depth -= 1
 

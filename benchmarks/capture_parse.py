@@ -21,7 +21,7 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
-from acceptance.captures import analyse_capture, parse_scaling  # noqa: E402
+from acceptance.captures import analyse_capture, parse_scaling
 
 ROWS = 1_000_000
 REPEATS = 7

@@ -22,7 +22,7 @@ from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
-from tests.test_fuzz import BASE, check_through_cli, in_job, mutate, outcome, write_files  # noqa: E402
+from tests.test_fuzz import BASE, check_through_cli, in_job, mutate, outcome, write_files
 
 
 def run_one(number: int, seed: int) -> tuple[str, str | None]:
@@ -36,7 +36,7 @@ def run_one(number: int, seed: int) -> tuple[str, str | None]:
 
     try:
         return in_job(files, action), None
-    except Exception:  # noqa: BLE001 - every other exception is what this run looks for
+    except Exception:  # every other exception is what this run looks for
         return "crash", traceback.format_exc()
 
 

@@ -194,3 +194,69 @@ def test_help_through_the_installed_script():
     completed = run_cli("check", "--help")
     assert completed.returncode == 0
     assert "--json" in completed.stdout
+
+
+# ------------------------------------------------ computations that cannot be done
+
+
+def test_a_refused_correction_is_an_undetermined_check_not_a_crash(make_job, capsys):
+    # R₂ = R₁ · (k + θ₂)/(k + θ₁) has no meaning at or below θ₁ = −k: k = 235 °C for copper
+    # (IEC 60034-1 cl. 8.6.2, the inferred zero-resistance temperature) [M]. A typed
+    # winding temperature of −240 °C must leave that one check undetermined, with the reason,
+    # and every other check of the visit evaluated.
+    machine = {"nameplate": {"windings": [{"id": "w", "name": "W", "material": "copper",
+                                           "thermal_class": "F"}]},
+               "checklists": ["supply", "windings"]}
+    root = make_job(machine=machine, visit={"readings": {
+        "supply": PASSING_SUPPLY,
+        "windings": {"resistance": {"w": {"value": "2.500 Ω", "temperature": "-240 °C"}}}}})
+    assert cli.main(["check", str(root), "--all"]) == 1  # a visit that did not pass, no crash
+    captured = capsys.readouterr()
+    assert "Traceback" not in captured.err + captured.out
+    assert "INCOMPLETE" in captured.out
+    line = next(text for text in captured.out.splitlines()
+                if "cannot be computed from these values" in text)
+    assert "-240 °C is at or below -k (-235 °C)" in line
+    assert "✓ pass             supply.frequency" in captured.out
+
+    assert cli.main(["check", str(root), "--json"]) == 1
+    document = json.loads(capsys.readouterr().out)
+    items = document["machines"][0]["visits"][0]["checklists"][1]["items"]
+    resistance = next(item for item in items if item["id"] == "resistance")
+    check = resistance["elements"][0]["checks"][0]
+    assert check["verdict"] == Verdict.UNDETERMINED.value
+    assert "at or below -k" in check["message"]
+
+
+def _raise_inside(monkeypatch) -> None:
+    from acceptance.commands import check
+
+    def broken(args):
+        raise RuntimeError("a fault of the tool")
+
+    monkeypatch.setattr(check, "run", broken)
+
+
+def test_an_internal_error_has_its_own_exit_code_and_asks_for_a_report(
+        make_job, monkeypatch, capsys):
+    _raise_inside(monkeypatch)
+    root = passing_job(make_job)
+    assert cli.main(["check", str(root)]) == cli.INTERNAL_ERROR_EXIT == 4
+    err = capsys.readouterr().err
+    assert "Traceback" not in err
+    assert "internal error: RuntimeError: a fault of the tool" in err
+    assert "Please report it with the command line (acceptance check " in err
+    assert "acceptance 0." in err  # the version, for the report
+
+
+def test_debug_shows_the_traceback_of_an_internal_error(make_job, monkeypatch, capsys):
+    _raise_inside(monkeypatch)
+    assert cli.main(["--debug", "check", str(passing_job(make_job))]) == 4
+    err = capsys.readouterr().err
+    assert err.startswith("Traceback (most recent call last):")
+    assert "RuntimeError: a fault of the tool" in err
+
+
+def test_debug_changes_nothing_when_nothing_fails(make_job, capsys):
+    assert cli.main(["--debug", "check", str(passing_job(make_job))]) == 0
+    assert capsys.readouterr().err == ""

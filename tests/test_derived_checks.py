@@ -121,6 +121,18 @@ def test_unbalance_480_476_472_passes(make_job, evaluate, step):
     assert check.verdict is Verdict.PASS
 
 
+def test_unbalance_of_lines_that_cannot_close_a_triangle_is_undetermined(make_job, evaluate):
+    # The three line-to-line phasors of a three-wire system sum to zero (Kirchhoff's voltage
+    # law), so their magnitudes close a triangle [M]: 400 V against 100 V + 100 V is a wrong
+    # reading, not an unbalance. The check says so; the other checks of the visit still run.
+    evaluated, check = _unbalance(make_job, evaluate, ("400 V", "100 V", "100 V"))
+    assert check.verdict is Verdict.UNDETERMINED
+    assert "cannot form a triangle" in (check.message or "")
+    # 100 V is outside 0.9 … 1.1 × 460 V (IEC 60204-1:2016 cl. 4.3.2) [M]: still judged.
+    window = evaluated.check("supply.voltage", "L3-L1", check="limit")
+    assert window.verdict is Verdict.FAIL
+
+
 def test_unbalance_needs_all_three_lines(make_job, evaluate):
     root = make_job(machine=THREE_PHASE_460, visit={"readings": {"supply": {
         "voltage": {"L1-L2": "460 V", "L3-L1": "450 V"}}}})

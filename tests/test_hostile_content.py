@@ -297,7 +297,7 @@ def test_fetcher_refuses_a_file_above_its_size_limit(site_root):
 class _Counting(http.server.BaseHTTPRequestHandler):
     requests: list[str] = []
 
-    def do_GET(self):  # noqa: N802 - http.server's name
+    def do_GET(self):  # http.server's name
         _Counting.requests.append(self.path)
         self.send_response(404)
         self.end_headers()

@@ -52,11 +52,11 @@ class Spy:
         self.laid_out: list[str] = []
         render_one, lay_out = pdfs._render_one, package.lay_out_part
 
-        def spy_render(task, staging):  # noqa: ANN001, ANN202
+        def spy_render(task, staging):
             self.rendered.append(task.pdf)
             return render_one(task, staging)
 
-        def spy_lay_out(html, target, *arguments):  # noqa: ANN001, ANN202
+        def spy_lay_out(html, target, *arguments):
             self.laid_out.append(Path(target).name)
             return lay_out(html, target, *arguments)
 

@@ -43,7 +43,8 @@ def render_pages(ctx: BuildContext) -> None:
             # numpy loads only here: the PDF workers import this package and draw no plots.
             from ..rendering.plots import render_machine_trends
 
-            extra["trends"] = render_machine_trends(env, page.context["machine"])
+            extra["trends"] = render_machine_trends(
+                env, page.context["machine"])  # type: ignore[arg-type]
         files[page.path] = template.render(root=page.root, **page.context, **extra).encode()
     assets = templates_dir() / "assets"
     for path in sorted(assets.rglob("*")):

@@ -9,6 +9,7 @@ from pathlib import Path
 
 from ..build import build_site
 from ..errors import BuildError
+from ..integrity import load_private_key
 
 
 def register(parser: argparse.ArgumentParser) -> None:
@@ -34,8 +35,6 @@ def run(args: argparse.Namespace) -> int:
     if jobs < 1:
         raise BuildError("--jobs must be 1 or more")
     if args.key is not None:
-        from ..integrity import load_private_key
-
         load_private_key(args.key)  # a bad key stops the build before anything is rendered
     report = build_site(args.job, args.output, with_pdf=not args.no_pdf,
                         progress=progress if interactive else None, jobs=jobs, key=args.key)

@@ -18,10 +18,11 @@ import textwrap
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
+from .. import check_cache
+from ..results import MachineResult, Verdict, VisitState, count_states, machine_to_json, to_json
+
 if TYPE_CHECKING:
     from ..loading import Job, LoadedMachine
-    from ..results import MachineResult
-
 
 # json.dumps(indent=2) puts the top-level keys two spaces in and the items of their lists four.
 _JSON_KEY_INDENT = "  "
@@ -38,8 +39,6 @@ def register(parser: argparse.ArgumentParser) -> None:
 
 def machine_lines(machine: MachineResult, show_all: bool = False) -> list[str]:
     """One machine's section of the summary: its visits and what needs attention."""
-    from ..results import Verdict
-
     lines = ["", f"{machine.name} [{machine.id}]"]
     if not machine.visits:
         lines.append("  no visits recorded")
@@ -83,16 +82,12 @@ def machine_lines(machine: MachineResult, show_all: bool = False) -> list[str]:
 
 def totals_line(states: list[str]) -> str:
     """The last line of the summary: how many visits are in each state."""
-    from ..results import VisitState, count_states
-
     counts = count_states(VisitState(state) for state in states)
     return f"{len(states)} visits: " + ", ".join(
         f"{count} {state.word}" for state, count in counts if count)
 
 
 def run(args: argparse.Namespace) -> int:
-    from .. import check_cache
-
     variant = "json" if args.json else ("all" if args.all else "summary")
     cache = (check_cache.open_cache(args.job, variant)
              if not os.environ.get("ACCEPTANCE_NO_CACHE") else None)
@@ -113,8 +108,6 @@ def _evaluate(root: Path, variant: str, machines: list[str] | None
     machine, each with its printed text, its visits' states and its sign-off report."""
     from ..evaluation import evaluate_job
     from ..loading import load_job
-    from ..results import machine_to_json, to_json
-
     job = load_job(root, machines=machines)  # raises InputError: nothing is cached then
     result = evaluate_job(job)
     loaded = {machine.id: machine for machine in job.machines}
@@ -142,8 +135,6 @@ def _evaluate(root: Path, variant: str, machines: list[str] | None
 
 
 def _print(variant: str, head: Any, sections: list[dict[str, Any]]) -> int:
-    from ..results import VisitState
-
     states = [state for section in sections for state in section["states"]]
     signatures = "".join(section["signatures"] for section in sections)
     if variant == "json":

@@ -11,11 +11,11 @@ import sys
 from pathlib import Path
 
 from ..errors import AcceptanceError
-from ..evaluation import evaluate_job
-from ..history import (
+from ..evaluation import (
     COMPARISON_SCHEMA,
     VisitComparison,
     comparison_to_json,
+    evaluate_job,
     select_baseline,
     visit_comparison,
 )

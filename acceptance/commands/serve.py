@@ -91,10 +91,10 @@ class _Preview:
 class _Handler(SimpleHTTPRequestHandler):
     preview: _Preview
 
-    def log_message(self, format: str, *args: object) -> None:  # noqa: A002 - stdlib name
+    def log_message(self, format: str, *args: object) -> None:  # http.server names it
         return  # the terminal shows rebuilds, not every request
 
-    def do_GET(self) -> None:  # noqa: N802 - stdlib name
+    def do_GET(self) -> None:  # http.server names it
         if self.path.split("?")[0] == _STATUS_PATH:
             with self.preview.lock:
                 body = json.dumps({"generation": self.preview.generation,

@@ -99,7 +99,7 @@ def phase_sequence(angle_l1: float, angle_l2: float, angle_l3: float) -> PhaseSe
     return PhaseSequence(
         sequence=POSITIVE_SEQUENCE if positive else NEGATIVE_SEQUENCE,
         positive=positive,
-        displacements=lags,
+        displacements=(lags[0], lags[1], lags[2]),
         largest_deviation=max(abs(lag - nominal) for lag in lags),
     )
 

@@ -25,11 +25,14 @@ from __future__ import annotations
 from collections.abc import Sequence
 from dataclasses import dataclass
 from enum import StrEnum
+from typing import TypeVar
 
 from ._checks import finite as _finite
 from ._checks import non_negative as _non_negative
 from ._checks import positive as _positive
 from ._errors import ComputationError
+
+_E = TypeVar("_E", bound=StrEnum)
 
 __all__ = [
     "TOUCH_VOLTAGE_LIMIT",
@@ -95,14 +98,14 @@ _COVERS = {
 
 # IEC 61008-1:2010 / IEC 61009-1:2010 Table 1, sinusoidal [M, reference values §17]:
 # multiple of IΔn → (minimum non-actuating time, maximum break time) [s]
-_BREAK_TIMES = {
+_BREAK_TIMES: dict[RcdSelectivity, dict[float, tuple[float | None, float]]] = {
     RcdSelectivity.GENERAL: {1.0: (None, 0.3), 2.0: (None, 0.15), 5.0: (None, 0.04)},
     RcdSelectivity.SELECTIVE: {1.0: (0.13, 0.5), 2.0: (0.06, 0.2), 5.0: (0.05, 0.15)},
 }
 _NO_TRIP_MULTIPLE = 0.5
 
 
-def _enum(kind: type[StrEnum], name: str, value: object) -> StrEnum:
+def _enum(kind: type[_E], name: str, value: object) -> _E:
     text = str(value).strip()
     try:
         return kind(text.upper() if kind is RcdType else text.lower())
@@ -230,6 +233,8 @@ class RcdTimeLimit:
         """E.g. ``no trip``, ``t ≤ 300 ms`` or ``130 ms ≤ t ≤ 500 ms``."""
         if not self.must_trip:
             return "no trip"
+        if self.maximum_time is None:  # a trip test always has an upper limit
+            raise ComputationError("a trip limit without a maximum time cannot be described")
         upper = f"t ≤ {self.maximum_time * 1000:g} ms"
         if self.minimum_time is None:
             return upper

@@ -11,12 +11,17 @@ from collections import Counter
 from collections.abc import Sequence
 
 from .. import __version__
+from ..computations import ComputationError
 from ..history import (
+    COMPARISON_SCHEMA,
+    VisitComparison,
     compare_rule,
     compare_visits,
+    comparison_to_json,
     part_behaviour,
     select_baseline,
     trend_series,
+    visit_comparison,
 )
 from ..loading import Job, LoadedChecklist, LoadedMachine, LoadedVisit, Reading, element_names
 from ..model import (
@@ -45,7 +50,6 @@ from ..results import (
     worst,
 )
 from ..units import Dimension, Quantity
-from . import derived  # noqa: F401 - registers the derived rules into RULES
 from .instruments import (
     ReadingUncertainty,
     assess,
@@ -55,9 +59,15 @@ from .instruments import (
 )
 from .punch_list import deficiencies, open_required
 from .register import instrument_entries, instrument_uses
-from .rules import RULES, Context, Outcome
+from .registry import RULES
+from .rules import Context, Outcome
 
-__all__ = ["evaluate_job", "visit_state"]
+# The comparison of two visits, for ``compare`` against a baseline of the user's choice: it
+# is a judgement, so commands reach it through evaluation, never history itself.
+__all__ = ["COMPARISON_SCHEMA", "VisitComparison", "comparison_to_json", "evaluate_job",
+           "select_baseline", "visit_comparison", "visit_state"]
+
+ElementSpec = WindingSpec | CapacitorSpec | SurveyPoint | BondingPoint
 
 
 def _applies(item: ChecklistItem, machine: LoadedMachine) -> bool:
@@ -79,9 +89,6 @@ def _applies(item: ChecklistItem, machine: LoadedMachine) -> bool:
     }[item.applies_when]
 
 
-ElementSpec = WindingSpec | CapacitorSpec | SurveyPoint | BondingPoint
-
-
 def _element_spec(item: ChecklistItem, machine: LoadedMachine,
                   element: str | None) -> ElementSpec | None:
     nameplate = machine.model.nameplate
@@ -89,8 +96,7 @@ def _element_spec(item: ChecklistItem, machine: LoadedMachine,
         "winding": nameplate.windings, "capacitor": nameplate.capacitors,
         "survey_point": machine.model.survey_points,
         "bonding_point": machine.model.bonding_points}
-    pool = pools.get(item.per, ())
-    return next((entry for entry in pool if entry.id == element), None)
+    return next((entry for entry in pools.get(item.per, ()) if entry.id == element), None)
 
 
 def _override(job: Job, key: str, check_id: str) -> LimitOverride | None:
@@ -130,7 +136,7 @@ def _evaluate_element(item: ChecklistItem, checklist: LoadedChecklist, element: 
         key = f"{checklist.id}.{item.id}"
         override = _override(job, key, spec.id)
         params = {**spec.params, **(override.params if override else {})}
-        outcome = RULES[spec.rule].evaluate(reading, context, params)
+        outcome = _run_rule(spec.rule, reading, context, params)
         source = override.source.describe() if override else spec.source.describe()
         if outcome.source_note and not override:
             source = (outcome.source_note if outcome.source_replaces
@@ -165,6 +171,21 @@ def _evaluate_element(item: ChecklistItem, checklist: LoadedChecklist, element: 
                                       ReadingUncertainty) else uncertainty),
                          findings=tuple(findings), capture=reading.capture,
                          effective_basis=_basis(context, reading))
+
+
+def _run_rule(name: str, reading: Reading, context: Context,
+              params: dict[str, object]) -> Outcome:
+    """Evaluate one check; the one place where a computation that cannot be done (a
+    formula refusing its inputs, e.g. a winding temperature at or below −k) becomes an
+    undetermined check that says why, instead of stopping the whole evaluation."""
+    rule = RULES[name]
+    try:
+        return rule.evaluate(reading, context, params)
+    except (ComputationError, ValueError, ZeroDivisionError, OverflowError) as error:
+        reason = str(error) or type(error).__name__
+        return Outcome(Verdict.UNDETERMINED, rule.summary,
+                       message=f"cannot be computed from these values: {reason}; "
+                               f"check the reading and the nameplate")
 
 
 def _compared(outcome: Outcome) -> tuple[float | None, str]:

@@ -5,8 +5,8 @@ and discharge, voltage unbalance, insulation resistance at 40 °C, the expected
 resistance of a bonding conductor, cable voltage drop, the source impedance and
 the equivalent current of an intermittent load — by the functions in
 :mod:`acceptance.computations`, and records every input, the formula, the result
-and its source as :class:`~acceptance.results.Step` values. Importing this module
-adds the rules to :data:`acceptance.evaluation.rules.RULES`.
+and its source as :class:`~acceptance.results.Step` values. Their specifications are in
+:mod:`acceptance.rule_specs`; :mod:`acceptance.evaluation.registry` joins the two.
 """
 
 from __future__ import annotations
@@ -22,12 +22,12 @@ from ..computations import supply as sup
 from ..results import Step, Verdict
 from ..tolerance import Tolerance
 from ..units import Basis, Dimension, Quantity, format_value, parse_quantity
-from .rules import RULES, Context, Outcome, Param, Rule, _captured_current, _compare
+from .rules import Context, Evaluate, Outcome, _captured_current, _compare
 
 if TYPE_CHECKING:
     from ..loading import Reading
 
-__all__ = ["DERIVED_RULES"]
+__all__ = ["EVALUATORS"]
 
 
 def _fmt(value: float, dimension: Dimension, unit: str | None = None, digits: int = 4) -> str:
@@ -113,10 +113,7 @@ def _voltage_unbalance(reading: Reading, context: Context, params: dict[str, Any
             return Outcome(Verdict.UNDETERMINED, tolerance.describe(),
                            message=f"needs all three line voltages; {line} is not recorded")
         readings.append(found.value.value)
-    try:
-        both = sup.voltage_unbalance(*readings)
-    except ComputationError as error:
-        return Outcome(Verdict.UNDETERMINED, tolerance.describe(), message=str(error))
+    both = sup.voltage_unbalance(*readings)
     nema_pct, sequence_pct = 100 * both.nema, 100 * both.sequence
     derating = sup.nema_derating_factor(both.nema)
     steps = [
@@ -151,9 +148,6 @@ def _voltage_unbalance(reading: Reading, context: Context, params: dict[str, Any
 
 
 # ------------------------------------------------------------------ insulation
-
-_IEEE_KINDS = tuple(kind.value for kind in ins.WindingInsulationKind)
-
 
 def _insulation_minimum(params: dict[str, Any], context: Context) -> ins.InsulationMinimum:
     standard = params.get("standard", "IEC 60204-1")
@@ -319,10 +313,7 @@ def _cable_voltage_drop(reading: Reading, context: Context, params: dict[str, An
                                f"{basis.phrase if basis else 'of unknown basis'}")
     conductor_temperature = _quantity_param(params, "conductor_temperature", "70 °C",
                                             Dimension.TEMPERATURE)
-    try:
-        row = res.iec_60228_resistance(cable.cross_section.value, cable.conductor_class)
-    except ComputationError as error:
-        return Outcome(Verdict.UNDETERMINED, tolerance.describe(), message=str(error))
+    row = res.iec_60228_resistance(cable.cross_section.value, cable.conductor_class)
     power_factor = cable.power_factor if cable.power_factor is not None else 1.0
     drop = sup.cable_voltage_drop(
         current, cable.length.value, row.resistance_per_length,
@@ -429,38 +420,17 @@ def _intermittent_duty(reading: Reading, context: Context, params: dict[str, Any
                     source_note=f"compared with the {name}, the smaller rating")
 
 
-# ------------------------------------------------------------------ registry
+# ------------------------------------------------------------------ evaluate functions
 
-DERIVED_RULES: tuple[Rule, ...] = (
-    Rule("stored_energy_discharge", "capacitor discharge to 60 V within the time limit, "
-         "with stored energy, charge and the largest bleeder",
-         {"limit": Param("quantity", False)}, _stored_energy_discharge),
-    Rule("voltage_unbalance", "three-phase voltage unbalance by both definitions within the "
-         "limit (check the last line, L3-L1)",
-         {"limit": Param("ratio", False)}, _voltage_unbalance),
-    Rule("insulation_resistance", "insulation resistance corrected to 40 °C at least the "
-         "standard's minimum",
-         {"standard": Param("text", False, ("IEC 60204-1", "IEEE 43")),
-          "winding_kind": Param("text", False, _IEEE_KINDS),
-          "minimum": Param("quantity", False), "reduced_section": Param("flag", False)},
-         _insulation_resistance),
-    Rule("polarization_index", "IR₁₀/IR₁ at least the minimum for the thermal class",
-         {"one_minute_item": Param("checklist item")}, _polarization_index),
-    Rule("absorption_ratio", "IR₆₀ₛ/IR₃₀ₛ recorded with its trade-practice band",
-         {"one_minute_item": Param("checklist item")}, _absorption_ratio),
-    Rule("bonding_resistance", "bonding resistance within a margin of the value expected "
-         "from length, cross-section and material",
-         {"margin": Param("ratio", False)}, _bonding_resistance),
-    Rule("cable_voltage_drop", "supply cable voltage drop at the measured current within the "
-         "recommended limit",
-         {"limit": Param("ratio", False), "conductor_temperature": Param("temperature", False)},
-         _cable_voltage_drop),
-    Rule("source_impedance", "source impedance from the no-load to under-load sag (recorded)",
-         {"no_load_item": Param("checklist item"), "current_item": Param("checklist item")},
-         _source_impedance),
-    Rule("intermittent_duty", "equivalent thermal current at the duty cycle within the "
-         "protective device and the conductor", {}, _intermittent_duty),
-)
-
-for _rule in DERIVED_RULES:
-    RULES[_rule.name] = _rule
+# Each rule's evaluate function by the name of its specification in acceptance.rule_specs.
+EVALUATORS: dict[str, Evaluate] = {
+    "stored_energy_discharge": _stored_energy_discharge,
+    "voltage_unbalance": _voltage_unbalance,
+    "insulation_resistance": _insulation_resistance,
+    "polarization_index": _polarization_index,
+    "absorption_ratio": _absorption_ratio,
+    "bonding_resistance": _bonding_resistance,
+    "cable_voltage_drop": _cable_voltage_drop,
+    "source_impedance": _source_impedance,
+    "intermittent_duty": _intermittent_duty,
+}

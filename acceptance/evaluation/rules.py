@@ -9,20 +9,22 @@ phrase and every intermediate value. Rules call the pure functions in
 from __future__ import annotations
 
 from collections.abc import Callable
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
 
+from ..capacitor_codes import tolerance_window
 from ..results import Step, Verdict
+from ..rule_specs import REFERENCES, RuleSpec
 from ..tolerance import Tolerance
-from ..units import Basis, Dimension, Quantity, UnitError, format_value, parse_quantity
-from .capacitor_codes import tolerance_window
+from ..units import Basis, Dimension, Quantity, format_value, parse_quantity
+from . import engineering as eng
 
 if TYPE_CHECKING:
     from ..computations.waveform import WaveformMetrics
     from ..loading import Job, LoadedMachine, LoadedVisit, Reading
     from ..model import ChecklistItem, Nameplate
 
-__all__ = ["RULES", "Context", "Outcome", "Rule", "SYMBOLS"]
+__all__ = ["EVALUATORS", "Context", "Evaluate", "Outcome", "Rule", "SYMBOLS"]
 
 SYMBOLS = {
     Dimension.VOLTAGE: "U", Dimension.CURRENT: "I", Dimension.RESISTANCE: "R",
@@ -87,86 +89,23 @@ def _compare(tolerance: Tolerance, value: float, steps: tuple[Step, ...] | list[
                    tolerance=tolerance, compared_value=value, sensitivity=sensitivity, **fields)
 
 
-@dataclass(frozen=True)
-class Param:
-    kind: str  # "quantity" (item's dimension), "ratio", "reference", "number", "text",
-    #            "temperature difference", "checklist item"
-    required: bool = True
-    choices: tuple[str, ...] = ()
+Evaluate = Callable[["Reading", Context, dict[str, Any]], Outcome]
 
 
 @dataclass(frozen=True)
 class Rule:
-    name: str
-    summary: str
-    params: dict[str, Param]
-    evaluate: Callable[[Reading, Context, dict[str, Any]], Outcome]
-    record: str = "quantity"  # what kind of item it applies to
-    groups: tuple[tuple[str, ...], ...] = field(default=())  # at least one of each group
+    """A rule's specification (name, parameters) with the function that evaluates it."""
 
-    def validate_params(self, params: dict[str, Any], item: ChecklistItem) -> list[str]:
-        problems: list[str] = []
-        if item.record != self.record:
-            problems.append(f"rule '{self.name}' applies to {self.record} items, "
-                            f"but this item records a {item.record}")
-            return problems
-        for name in params:
-            if name not in self.params:
-                allowed = ", ".join(self.params) or "none"
-                problems.append(f"rule '{self.name}' has no parameter '{name}' "
-                                f"(its parameters: {allowed})")
-        for name, spec in self.params.items():
-            if name not in params:
-                if spec.required:
-                    problems.append(f"rule '{self.name}' needs parameter '{name}'")
-                continue
-            problems.extend(_check_param(self.name, name, spec, params[name], item))
-        for group in self.groups:
-            if not any(name in params for name in group):
-                problems.append(f"rule '{self.name}' needs one of: {', '.join(group)}")
-        return problems
+    spec: RuleSpec
+    evaluate: Evaluate
 
+    @property
+    def name(self) -> str:
+        return self.spec.name
 
-def _item_dimension(item: ChecklistItem) -> Dimension:
-    from ..loading import unit_dimension
-
-    return unit_dimension(item.unit or "")
-
-
-def _check_param(rule: str, name: str, spec: Param, value: Any,
-                 item: ChecklistItem) -> list[str]:
-    try:
-        if spec.kind == "quantity":
-            parse_quantity(value, _item_dimension(item))
-        elif spec.kind == "ratio":
-            parse_quantity(value, Dimension.RATIO)
-        elif spec.kind == "temperature difference":
-            parse_quantity(value, Dimension.TEMPERATURE_DIFFERENCE)
-        elif spec.kind == "temperature":
-            parse_quantity(value, Dimension.TEMPERATURE)
-        elif spec.kind == "flag" and not isinstance(value, bool):
-            return [f"parameter '{name}' of rule '{rule}' must be true or false"]
-        elif spec.kind == "number":
-            if isinstance(value, bool) or not isinstance(value, int | float) or value <= 0:
-                return [f"parameter '{name}' of rule '{rule}' must be a positive number"]
-        elif spec.kind in ("reference", "text", "checklist item") and spec.choices:
-            if value not in spec.choices:
-                return [f"parameter '{name}' of rule '{rule}' is {value!r}; "
-                        f"use one of {', '.join(spec.choices)}"]
-    except UnitError as error:
-        return [f"parameter '{name}' of rule '{rule}': {error}"]
-    return []
-
-
-# ------------------------------------------------------------------ references
-
-REFERENCES: dict[str, tuple[str, Dimension]] = {
-    "rated_voltage": ("rated voltage", Dimension.VOLTAGE),
-    "rated_frequency": ("rated frequency", Dimension.FREQUENCY),
-    "rated_current": ("rated current", Dimension.CURRENT),
-    "protective_device": ("protective device rating", Dimension.CURRENT),
-    "conductor": ("current-carrying capacity of the supply cable", Dimension.CURRENT),
-}
+    @property
+    def summary(self) -> str:
+        return self.spec.summary
 
 
 def _reference(name: str, context: Context) -> Quantity | None:
@@ -186,7 +125,7 @@ def _reference(name: str, context: Context) -> Quantity | None:
     raise KeyError(name)  # pragma: no cover - validated against REFERENCES
 
 
-def _symbol(reading: Reading, context: Context) -> str:
+def _symbol(reading: Reading) -> str:
     assert isinstance(reading.value, Quantity)
     return SYMBOLS[reading.value.dimension]
 
@@ -213,7 +152,7 @@ def _bound(kind: str) -> Callable[[Reading, Context, dict[str, Any]], Outcome]:
         assert isinstance(reading.value, Quantity)
         limit = parse_quantity(params["limit"], reading.value.dimension)
         unit = limit.unit or _display_unit(reading, context)
-        symbol = _symbol(reading, context)
+        symbol = _symbol(reading)
         tolerance = (Tolerance(limit.dimension, symbol, unit, None, limit.value) if kind == "max"
                      else Tolerance(limit.dimension, symbol, unit, limit.value, None))
         return _compare(tolerance, reading.value.value)
@@ -225,7 +164,7 @@ def _window(reading: Reading, context: Context, params: dict[str, Any]) -> Outco
     assert isinstance(reading.value, Quantity)
     lower = parse_quantity(params["lower"], reading.value.dimension)
     upper = parse_quantity(params["upper"], reading.value.dimension)
-    tolerance = Tolerance(lower.dimension, _symbol(reading, context),
+    tolerance = Tolerance(lower.dimension, _symbol(reading),
                           lower.unit or _display_unit(reading, context), lower.value, upper.value)
     return _compare(tolerance, reading.value.value)
 
@@ -242,7 +181,7 @@ def _relative_to(reading: Reading, context: Context, params: dict[str, Any]) -> 
     lower = reference.value * (1 + lower_pct / 100)
     upper = reference.value * (1 + upper_pct / 100)
     unit = reference.unit or _display_unit(reading, context)
-    tolerance = Tolerance(reference.dimension, _symbol(reading, context), unit, lower, upper)
+    tolerance = Tolerance(reference.dimension, _symbol(reading), unit, lower, upper)
     steps = (
         Step(f"nameplate {label}", reference.format(), reference.value, reference.base_unit),
         Step("window", f"{_pct(lower_pct)} … {_pct(upper_pct)} of {reference.format()}",
@@ -340,8 +279,6 @@ def _captured_current(reading: Reading) -> WaveformMetrics | None:
 
 
 def _winding_resistance(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
-    from . import engineering as rc
-
     assert isinstance(reading.value, Quantity)
     winding = context.element
     measured_at = reading.extras.get("temperature")
@@ -351,8 +288,8 @@ def _winding_resistance(reading: Reading, context: Context, params: dict[str, An
                                "(temperature: 21 °C) so it can be corrected")
     reference_temperature = (winding.resistance_temperature
                              or context.job.model.reference_temperature)
-    constant = rc.temperature_constant(winding.material, params.get("constant", "IEC 60034-1"))
-    corrected = rc.resistance_at_temperature(
+    constant = eng.temperature_constant(winding.material, params.get("constant", "IEC 60034-1"))
+    corrected = eng.resistance_at_temperature(
         reading.value.value, temperature=measured_at.value,
         target_temperature=reference_temperature.value, constant=constant)
     steps = [
@@ -412,9 +349,6 @@ def _capacitance(reading: Reading, context: Context, params: dict[str, Any]) -> 
 
 
 def _rise_by_resistance(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
-    from . import engineering as rc
-    from . import engineering as tr
-
     assert isinstance(reading.value, Quantity)
     winding = context.element
     cold = context.reading_of(params["cold_item"], reading.element)
@@ -427,8 +361,8 @@ def _rise_by_resistance(reading: Reading, context: Context, params: dict[str, An
         return Outcome(Verdict.UNDETERMINED, "Δθ ≤ class limit",
                        message="record the ambient (coolant) temperature at the end of the "
                                "test: 'ambient' with the reading or under conditions")
-    constant = rc.temperature_constant(winding.material, params.get("constant", "IEC 60034-1"))
-    rise = tr.rise_by_resistance(
+    constant = eng.temperature_constant(winding.material, params.get("constant", "IEC 60034-1"))
+    rise = eng.rise_by_resistance(
         cold_resistance=cold.value.value, hot_resistance=reading.value.value,
         cold_temperature=cold.extras["temperature"].value, ambient_temperature=ambient.value,
         constant=constant)
@@ -437,12 +371,12 @@ def _rise_by_resistance(reading: Reading, context: Context, params: dict[str, An
         limit_source = "manufacturer's rise limit for this winding"
     else:
         try:
-            limit = tr.rise_limit(winding.thermal_class, params.get("standard", "IEC 60034-1"))
+            limit = eng.rise_limit(winding.thermal_class, params.get("standard", "IEC 60034-1"))
         except ValueError as error:
             return Outcome(Verdict.UNDETERMINED, "Δθ ≤ class limit",
                            message=f"{error}; give the manufacturer's rise_limit for the winding")
         limit_value = limit.limit
-        limit_source = tr.limit_source(limit)
+        limit_source = eng.limit_source(limit)
     tolerance = Tolerance(Dimension.TEMPERATURE_DIFFERENCE, "Δθ", "K", None, limit_value)
     steps = (
         Step("cold resistance R₁", cold.value.format(), cold.value.value, "Ω"),
@@ -485,36 +419,19 @@ def _rise_over_ambient(reading: Reading, context: Context, params: dict[str, Any
     return Outcome(Verdict.RECORDED, "no limit for this point", tuple(steps))
 
 
-# ------------------------------------------------------------------ registry
+# ------------------------------------------------------------------ evaluate functions
 
-_REF = tuple(REFERENCES)
-
-RULES: dict[str, Rule] = {rule.name: rule for rule in (
-    Rule("confirmed", "the step was done (yes)", {}, _confirmed, record="confirmation"),
-    Rule("at_most", "reading ≤ limit", {"limit": Param("quantity")}, _bound("max")),
-    Rule("at_least", "reading ≥ limit", {"limit": Param("quantity")}, _bound("min")),
-    Rule("window", "lower ≤ reading ≤ upper",
-         {"lower": Param("quantity"), "upper": Param("quantity")}, _window),
-    Rule("relative_to", "reading within a percentage window of a nameplate value",
-         {"reference": Param("reference", choices=_REF), "lower": Param("ratio", False),
-          "upper": Param("ratio", False)}, _relative_to, groups=(("lower", "upper"),)),
-    Rule("current_against", "current ≤ factor × a rating, on the rating's basis",
-         {"reference": Param("reference",
-                             choices=("rated_current", "protective_device", "conductor")),
-          "factor": Param("number", False)}, _current_against),
-    Rule("winding_resistance", "resistance corrected to the reference temperature within "
-         "the nameplate tolerance",
-         {"default_tolerance": Param("ratio"),
-          "constant": Param("text", False, ("IEC 60034-1", "IEC 60228", "IEEE 112"))},
-         _winding_resistance),
-    Rule("capacitance_tolerance", "capacitance within the nominal's tolerance code", {},
-         _capacitance),
-    Rule("rise_by_resistance", "winding temperature rise by the resistance method within "
-         "the limit for its thermal class",
-         {"cold_item": Param("checklist item"),
-          "standard": Param("text", False, ("IEC 60034-1", "NEMA MG 1")),
-          "constant": Param("text", False, ("IEC 60034-1", "IEC 60228", "IEEE 112"))},
-         _rise_by_resistance),
-    Rule("rise_over_ambient", "surface temperature or its rise within the survey point's limit",
-         {}, _rise_over_ambient),
-)}
+# Each rule's evaluate function by the name of its specification in acceptance.rule_specs;
+# acceptance.evaluation.registry joins them.
+EVALUATORS: dict[str, Evaluate] = {
+    "confirmed": _confirmed,
+    "at_most": _bound("max"),
+    "at_least": _bound("min"),
+    "window": _window,
+    "relative_to": _relative_to,
+    "current_against": _current_against,
+    "winding_resistance": _winding_resistance,
+    "capacitance_tolerance": _capacitance,
+    "rise_by_resistance": _rise_by_resistance,
+    "rise_over_ambient": _rise_over_ambient,
+}

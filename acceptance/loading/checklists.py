@@ -10,6 +10,7 @@ from ..model import (
     Checklist,
 )
 from ..resources import checklists_dir
+from ..rule_specs import SPECS
 from ..units import Dimension, UnitError, parse_quantity
 from ..yamlfile import Document, KeyPath
 from .loaded import LoadedChecklist, _suggest, unit_dimension
@@ -129,16 +130,14 @@ def _check_compare_specs(loaded: LoadedChecklist, checklists: dict[str, LoadedCh
 
 
 def _check_rules(model: Checklist, document: Document, problems: list[Problem]) -> None:
-    from ..evaluation.rules import RULES  # late: evaluation imports loading's types
-
     for index, item in enumerate(model.items):
         for check_index, check in enumerate(item.checks):
-            rule = RULES.get(check.rule)
+            rule = SPECS.get(check.rule)
             path: KeyPath = ("items", index, "checks", check_index)
             if rule is None:
                 problems.append(document.problem(
                     (*path, "rule"),
-                    f"unknown rule '{check.rule}'{_suggest(check.rule, sorted(RULES))}"))
+                    f"unknown rule '{check.rule}'{_suggest(check.rule, sorted(SPECS))}"))
                 continue
             for message in [*rule.validate_params(check.params, item),
                             *_bounds_order(check.params)]:

@@ -2,19 +2,28 @@
 
 from __future__ import annotations
 
-from collections.abc import Collection
+from collections.abc import Collection, Sequence
 from pathlib import Path
 
+from ..capacitor_codes import tolerance_window_error
+from ..computations import ComputationError
+from ..computations.uncertainty import ACCURACY_FORMS, parse_accuracy_specification
 from ..errors import InputError, Problem
 from ..model import (
+    BondingPoint,
+    CapacitorSpec,
     Instrument,
     InstrumentRegister,
     JobFile,
     MachineFile,
+    SurveyPoint,
     VisitFile,
+    WindingSpec,
 )
+from ..rule_specs import SPECS
+from ..signature_records import SIGNATURES_DIR, SignatureFile
 from ..units import UnitError, parse_quantity
-from ..yamlfile import Document, KeyPath, format_key_path
+from ..yamlfile import Document, KeyPath
 from .checklists import _bounds_order, _load_checklists, _voltage_item_problem
 from .loaded import (
     _UNPRINTABLE_PATH,
@@ -69,7 +78,7 @@ def load_job(root: Path, include_visits: bool = True,
         instruments_document = _load_document(root / INSTRUMENTS_FILE, root, problems)
         register = (_validate(InstrumentRegister, instruments_document, problems)
                     if instruments_document else None)
-        if register:
+        if register and instruments_document is not None:
             for index, instrument in enumerate(register.instruments):
                 if instrument.id in instruments:
                     problems.append(instruments_document.problem(
@@ -116,9 +125,6 @@ def load_job(root: Path, include_visits: bool = True,
 
 def _check_accuracy(instrument: Instrument, index: int, document: Document,
                     problems: list[Problem]) -> None:
-    from ..computations import ComputationError
-    from ..computations.uncertainty import ACCURACY_FORMS, parse_accuracy_specification
-
     for number, entry in enumerate(instrument.functions):
         path: KeyPath = ("instruments", index, "functions", number)
         try:
@@ -146,8 +152,6 @@ def _check_accuracy(instrument: Instrument, index: int, document: Document,
 
 def _check_overrides(job: JobFile, document: Document, checklists: dict[str, LoadedChecklist],
                      problems: list[Problem]) -> None:
-    from ..evaluation.rules import RULES
-
     for index, override in enumerate(job.overrides):
         path: KeyPath = ("overrides", index)
         checklist_id, _, item_id = override.item.partition(".")
@@ -168,7 +172,7 @@ def _check_overrides(job: JobFile, document: Document, checklists: dict[str, Loa
                 f"{_suggest(override.check, known)}"))
             continue
         merged = {**check.params, **override.params}
-        for message in [*RULES[check.rule].validate_params(merged, item),
+        for message in [*SPECS[check.rule].validate_params(merged, item),
                         *_bounds_order(merged)]:
             problems.append(document.problem((*path, "params"), message))
 
@@ -240,8 +244,6 @@ def _load_machines(root: Path, checklists: dict[str, LoadedChecklist],
 
 def _load_signatures(machine: LoadedMachine, root: Path, problems: list[Problem]) -> None:
     """Read ``signatures/<visit>.yaml`` of each visit; what they cover is checked later."""
-    from ..integrity import SIGNATURES_DIR, SignatureFile
-
     folder = machine.folder / SIGNATURES_DIR
     if not folder.is_dir():
         return
@@ -270,11 +272,13 @@ def _check_machine(machine: LoadedMachine, checklists: dict[str, LoadedChecklist
                 ("checklists", index),
                 f"no checklist '{checklist_id}'{_suggest(checklist_id, sorted(checklists))}"))
     nameplate = machine.model.nameplate
-    for kind, where, entries in (
+    pools: tuple[tuple[str, KeyPath, Sequence[WindingSpec | CapacitorSpec | SurveyPoint
+                                              | BondingPoint]], ...] = (
             ("winding", ("nameplate", "windings"), nameplate.windings),
             ("capacitor", ("nameplate", "capacitors"), nameplate.capacitors),
             ("survey point", ("survey_points",), machine.model.survey_points),
-            ("bonding point", ("bonding_points",), machine.model.bonding_points)):
+            ("bonding point", ("bonding_points",), machine.model.bonding_points))
+    for kind, where, entries in pools:
         seen: dict[str, int] = {}
         for index, entry in enumerate(entries):
             if entry.id in seen:
@@ -282,8 +286,6 @@ def _check_machine(machine: LoadedMachine, checklists: dict[str, LoadedChecklist
                     (*where, index, "id"), f"{kind} id '{entry.id}' is used twice (first as "
                                            f"entry {seen[entry.id] + 1}); give each its own id"))
             seen.setdefault(entry.id, index)
-    from ..evaluation.capacitor_codes import tolerance_window_error
-
     for index, capacitor in enumerate(nameplate.capacitors):
         error = tolerance_window_error(capacitor.tolerance)
         if error:
@@ -411,5 +413,3 @@ def _check_attachments(visit: LoadedVisit, machine_folder: Path,
                 path, f"attachment '{attachment.path}' not found in {machine_folder.name}/"))
 
 
-def format_problem_path(path: KeyPath) -> str:  # re-exported for callers
-    return format_key_path(path)

@@ -82,7 +82,7 @@ class LoadedVisit:
     document: Document
     model: VisitFile
     readings: dict[tuple[str, str], list[Reading]] = field(default_factory=dict)
-    # Sign-off records (integrity.SignatureFile), kept outside the files they cover.
+    # Sign-off records (signature_records.SignatureFile), kept outside the files they cover.
     signatures: list[Any] = field(default_factory=list)
     # Readings after adjustment or repair on the same visit (VisitFile.as_left).
     as_left: dict[tuple[str, str], list[Reading]] = field(default_factory=dict)
@@ -126,7 +126,7 @@ def element_names(kind: str, nameplate: Nameplate, survey_ids: list[str],
         return ["L1", "L2", "L3"] if three else ["L"]
     if kind == "isolation_point":
         if three:
-            points = ["L1-L2", "L2-L3", "L3-L1", "L1-PE", "L2-PE", "L3-PE"]
+            points: list[str | None] = ["L1-L2", "L2-L3", "L3-L1", "L1-PE", "L2-PE", "L3-PE"]
             return [*points, "N-PE"] if nameplate.neutral else points
         return ["L-N", "L-PE", "N-PE"]
     if kind == "winding":

@@ -34,7 +34,7 @@ from .validation import _got
 # ------------------------------------------------------------------ readings
 
 
-def _confirmation(raw: Any) -> bool | None:
+def _confirmation(raw: Any) -> bool:
     if isinstance(raw, bool):  # YAML's true/false: not the words a confirmation takes
         raise UnitError(f"'{str(raw).lower()}' is not a confirmation; write yes or no")
     if isinstance(raw, str):
@@ -121,10 +121,11 @@ def _parse_reading(item: ChecklistItem, checklist_id: str, element: str | None, 
     else:
         value_raw = raw
     line = document.where(value_path)[0]
-    common = dict(checklist=checklist_id, item=item.id, element=element, instrument=instrument,
-                  extras=extras, note=note, file=document.display_name, line=line,
-                  range=range_holder[0] if range_holder else None,
-                  capture=capture_holder[0] if capture_holder else None)
+    common: dict[str, Any] = dict(
+        checklist=checklist_id, item=item.id, element=element, instrument=instrument,
+        extras=extras, note=note, file=document.display_name, line=line,
+        range=range_holder[0] if range_holder else None,
+        capture=capture_holder[0] if capture_holder else None)
     if value_raw is None or (isinstance(value_raw, str) and not value_raw.strip()):
         return Reading(value=None, not_applicable=False, **common)
     if isinstance(value_raw, str) and value_raw.strip().lower() in _NOT_APPLICABLE:

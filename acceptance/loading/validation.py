@@ -129,9 +129,9 @@ def _validate(model: type[BaseModel], document: Document, problems: list[Problem
             elif kind in _TYPE_WORDS:
                 message = f"expected {_TYPE_WORDS[kind]}, got {_got(detail.get('input'))}"
                 if kind in ("model_type", "dict_type"):
-                    fields = _fields_at(model, loc)
-                    if fields:
-                        message += f"; write its fields ({', '.join(fields[:4])}, …)"
+                    allowed = _fields_at(model, loc)
+                    if allowed:
+                        message += f"; write its fields ({', '.join(allowed[:4])}, …)"
                 elif kind == "string_type" and isinstance(detail.get("input"), int | float):
                     message += f"; quote it if it is meant as text: '{detail['input']}'"
             elif kind in _BOUND_WORDS:

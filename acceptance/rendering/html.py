@@ -14,6 +14,7 @@ import jinja2
 from markdown_it import MarkdownIt
 from markupsafe import Markup
 
+from ..integrity import SignatureStatus
 from ..resources import templates_dir
 from ..results import Verdict, VisitState
 
@@ -56,7 +57,7 @@ def render_markdown(text: str | None) -> Markup:
     """Markdown with raw HTML off and links limited to http, https, mailto and relative."""
     if not text:
         return Markup("")
-    return Markup(_MD.render(text))  # noqa: S704 - markdown-it escapes; raw HTML is off
+    return Markup(_MD.render(text))  # markdown-it escapes; raw HTML is off
 
 
 def _verdict_badge(verdict: Verdict | VisitState) -> Markup:
@@ -75,8 +76,6 @@ def _signature_badge(status: Any) -> Markup:
 
 
 def _unsigned(visit: Any) -> Any:
-    from ..integrity import SignatureStatus
-
     return SignatureStatus("unsigned")
 
 

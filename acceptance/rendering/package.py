@@ -24,7 +24,11 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
-from .pdf import PdfInfo, PdfSource
+from pypdf import PdfReader
+
+from ..integrity import signature_path, visit_inputs
+from .pdf import PdfInfo, PdfSource, render_document, write_archival
+from .pdfjoin import join_pdfs
 
 if TYPE_CHECKING:
     from ..loading import Job, LoadedMachine, LoadedVisit
@@ -66,8 +70,6 @@ def _shown(path: Path, job: Job) -> str:
 
 def visit_sources(job: Job, machine: LoadedMachine, visit: LoadedVisit) -> list[PdfSource]:
     """The files the visit's verdicts were computed from, and its sign-off record."""
-    from ..integrity import signature_path, visit_inputs
-
     paths: dict[Path, str] = {}
     for signed in visit_inputs(job, machine, visit):
         if signed.path.is_file():
@@ -120,8 +122,6 @@ def package_parts(result: JobResult, staging: Path, extra: Sequence[tuple[str, P
 
 
 def page_count(path: Path) -> int:
-    from pypdf import PdfReader
-
     return len(PdfReader(path).pages)
 
 
@@ -140,8 +140,6 @@ def lay_out_part(html: Path, target: Path, site: Path, info: PdfInfo,
     """Lay out one part of the package and, unless it does not come to ``pages`` pages, write
     it to ``target`` as PDF/A-3b; return the page count. Reads its files itself, so it can
     run in a process of its own."""
-    from .pdf import render_document, write_archival
-
     document = render_document(html, [site])
     count = len(document.pages)
     if pages is None or count == pages:
@@ -164,8 +162,6 @@ def render_package(env: Any, result: JobResult, staging: Path, signatures: Mappi
     afterwards. ``attachments`` are embedded by the join, so a change to them alone does not
     lay out the front again.
     """
-    from .pdfjoin import join_pdfs
-
     work = staging / PARTS_FOLDER
     work.mkdir(exist_ok=True)
     parts = package_parts(result, staging, [(title, staging / back_part_pdf(page))

@@ -18,12 +18,15 @@ import datetime as _dt
 import hashlib
 import io
 import mimetypes
+import os
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 from functools import partial
 from pathlib import Path
+from typing import Any
 from urllib.parse import unquote, urlsplit
 
+import pydyf
 from weasyprint import HTML, Attachment
 from weasyprint.urls import URLFetcher, URLFetcherResponse
 
@@ -91,7 +94,7 @@ class ConfinedFetcher(URLFetcher):
                                   {"Content-Type": content_type})
 
 
-def render_document(html_path: Path, roots: list[Path]):  # noqa: ANN201 - weasyprint Document
+def render_document(html_path: Path, roots: list[Path]) -> Any:  # a WeasyPrint Document
     """Lay out ``html_path`` with its print styles, reading only inside ``roots``."""
     fetcher = ConfinedFetcher(roots)
     return HTML(filename=str(html_path), url_fetcher=fetcher, media_type="print").render(
@@ -110,7 +113,7 @@ def render_pdf(html_path: Path, pdf_path: Path, roots: list[Path],
     return len(document.pages)
 
 
-def write_archival(document, pdf_path: Path, attachments: Sequence[PdfSource],  # noqa: ANN001
+def write_archival(document: Any, pdf_path: Path, attachments: Sequence[PdfSource],
                    info: PdfInfo | None, site_root: Path | None = None,
                    links_from: Path | None = None) -> None:
     """Write a laid-out document as PDF/A-3b with deterministic identifier and dates.
@@ -145,20 +148,16 @@ def write_archival(document, pdf_path: Path, attachments: Sequence[PdfSource],  
                                         base=Path(links_from or Path(pdf_path).parent)))
 
 
-def _finish(document, pdf, site_root: Path | None, base: Path) -> None:  # noqa: ANN001
+def _finish(document: Any, pdf: Any, site_root: Path | None, base: Path) -> None:
     _associated_files_once(document, pdf)
     if site_root is not None:
         _relative_links(pdf, site_root, base)
 
 
-def _relative_links(pdf, site_root: Path, base: Path) -> None:  # noqa: ANN001 - pydyf
+def _relative_links(pdf: Any, site_root: Path, base: Path) -> None:  # a pydyf PDF
     """Links to other pages of the site become relative to the PDF, as in the HTML: the
     absolute address of the folder the site was staged in neither exists after the build
     nor is the same twice."""
-    import os
-
-    import pydyf
-
     prefix = site_root.resolve().as_uri() + "/"
     base = base.resolve()
     for pdf_object in pdf.objects:
@@ -167,14 +166,14 @@ def _relative_links(pdf, site_root: Path, base: Path) -> None:  # noqa: ANN001 -
         action = pdf_object.get("A")
         target = action.get("URI") if isinstance(action, dict) else None
         text = getattr(target, "string", None)
-        if isinstance(text, str) and text.startswith(prefix):
+        if isinstance(action, dict) and isinstance(text, str) and text.startswith(prefix):
             path, _, fragment = text[len(prefix):].partition("#")
             relative = os.path.relpath(site_root.resolve() / unquote(path), base)
             action["URI"] = pydyf.String(Path(relative).as_posix()
                                          + (f"#{fragment}" if fragment else ""))
 
 
-def _associated_files_once(document, pdf) -> None:  # noqa: ANN001 - weasyprint, pydyf
+def _associated_files_once(document: Any, pdf: Any) -> None:  # WeasyPrint, pydyf
     """Name each embedded file once in the catalog's /AF (ISO 19005-3 6.8): WeasyPrint 70
     lists each file spec twice, once from the name tree and once from the object."""
     associated = pdf.catalog.get("AF")

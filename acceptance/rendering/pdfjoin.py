@@ -54,7 +54,8 @@ class _Output:
     """The file being written: object offsets, and a digest for the second /ID entry."""
 
     def __init__(self, handle: BinaryIO) -> None:
-        self.handle, self.position, self.offsets = handle, 0, {}
+        self.handle, self.position = handle, 0
+        self.offsets: dict[int, int] = {}
         self.digest = hashlib.md5(usedforsecurity=False)
         self.next_number = _OUTLINES + 1
 
@@ -137,14 +138,23 @@ class _Part:
             self.output.write_object(self.numbers[reference.idnum], body)
 
     def pages(self) -> list[int]:
-        numbers = [self.number(page.indirect_reference) for page in self.reader.pages]
+        numbers = []
+        for page in self.reader.pages:
+            reference = page.indirect_reference
+            assert reference is not None  # every page of a file read from disk is an object
+            numbers.append(self.number(reference))
         self.drain()
         return numbers
 
 
+def _catalog(reader: PdfReader) -> Any:
+    """The document catalog: a PDF dictionary whose entries pypdf types only as PdfObject."""
+    return reader.trailer["/Root"]
+
+
 def _named_destinations(reader: PdfReader) -> dict[str, Any]:
     names: dict[str, Any] = {}
-    tree = reader.trailer["/Root"].get("/Names", {}).get("/Dests")
+    tree = _catalog(reader).get("/Names", {}).get("/Dests")
     for name, value in _name_tree_leaves(tree):
         target = value.get_object()
         names.setdefault(name, target.get("/D", target)
@@ -193,16 +203,16 @@ def _embed(output: _Output, attachment: Any, moment: _dt.datetime) -> int:
 
 
 def _outline_root(reader: PdfReader) -> tuple[int | None, DictionaryObject | None]:
-    reference = reader.trailer["/Root"].raw_get("/Outlines") \
-        if "/Outlines" in reader.trailer["/Root"] else None
+    catalog = _catalog(reader)
+    reference = catalog.raw_get("/Outlines") if "/Outlines" in catalog else None
     if not isinstance(reference, IndirectObject):
         return None, None
-    root = reference.get_object()
+    root: Any = reference.get_object()
     return (reference.idnum, root) if root.get("/First") is not None else (None, None)
 
 
 def _pages_nodes(reader: PdfReader) -> list[int]:
-    found, stack = [], [reader.trailer["/Root"].raw_get("/Pages")]
+    found, stack = [], [_catalog(reader).raw_get("/Pages")]
     while stack:
         reference = stack.pop()
         node = reference.get_object()
@@ -228,7 +238,7 @@ def join_pdfs(target: Path, front: Path, parts: Sequence[tuple[str, Path]],
         if outline is not None and part_items:
             copier.overrides[outline.raw_get("/Last").idnum] = b"/Next %d 0 R" % part_items[0]
         kids = copier.pages()
-        catalog = reader.trailer["/Root"]
+        catalog = _catalog(reader)
         entries = {name: copier.dump(value) for name, value in catalog.items()
                    if name not in ("/Type", "/Pages", "/Outlines", "/Names", "/AF")}
         front_names = catalog.get("/Names", {})
@@ -239,7 +249,8 @@ def join_pdfs(target: Path, front: Path, parts: Sequence[tuple[str, Path]],
                  in _name_tree_leaves(front_names.get("/EmbeddedFiles"))}
         destinations = {name: copier.dump(value) for name, value in copier.names.items()}
         info = copier.dump(reader.trailer["/Info"]) if "/Info" in reader.trailer else None
-        permanent = reader.trailer["/ID"][0] if "/ID" in reader.trailer else None
+        trailer: Any = reader.trailer
+        permanent = trailer["/ID"][0] if "/ID" in trailer else None
         first_item = copier.dump(outline.raw_get("/First")) if outline is not None else None
         last_item = copier.dump(outline.raw_get("/Last")) if outline is not None else None
         top_count = _visible(outline) if outline is not None else 0

@@ -17,9 +17,11 @@ from dataclasses import dataclass
 
 import jinja2
 import numpy as np
+from markupsafe import Markup
 from numpy.typing import ArrayLike, NDArray
 
 from ..results import MachineResult
+from ..units import Dimension, UnitError, parse_quantity
 
 __all__ = [
     "Bar",
@@ -196,6 +198,7 @@ def nice_ticks(low: float, high: float,
         stop = math.ceil(high / candidate - 1e-9)
         if best is None or (stop - start) * candidate < (best[2] - best[1]) * best[0] - 1e-12:
             best = (candidate, start, stop)
+    assert best is not None  # the loop runs at least once
     step, first, last = best
     values = tuple(round(k * step, 12) + 0.0 for k in range(first, last + 1))
     return values[0], values[-1], values
@@ -590,8 +593,6 @@ def render_trend_svg(env: jinja2.Environment, traces: Sequence[TrendInput],
 
 def _display_factor(base_unit: str, display_unit: str | None) -> tuple[str, float]:
     """The unit to show a trend in and the base-unit value of one of it."""
-    from ..units import Dimension, UnitError, parse_quantity
-
     try:
         base = parse_quantity(f"1 {base_unit}", *Dimension) if base_unit else None
         shown = parse_quantity(f"1 {display_unit}", *Dimension) if display_unit else None
@@ -609,8 +610,6 @@ def render_machine_trends(env: jinja2.Environment,
 
     Returns a list of ``{"item", "title", "quantity", "svg"}``, in checklist order.
     """
-    from markupsafe import Markup
-
     dates = {visit.id: visit.date for visit in machine.visits}
     plots: list[dict[str, object]] = []
     trend_series_of = machine.trends

@@ -14,6 +14,7 @@ import json
 from collections.abc import Iterable, Mapping
 from typing import Any
 
+from ..integrity import SignatureStatus
 from ..results import Deficiency, JobResult, VisitResult
 
 __all__ = ["INDEX_DATA_NAME", "DEFICIENCIES_CSV_NAME", "index_options", "index_data_script",
@@ -85,8 +86,6 @@ def review_globals(signatures: Mapping[str, Any], package_pdf: bool) -> dict[str
     """Template globals for sign-off states and the index: ``signature_of(thing)`` takes a
     visit result, a record with ``machine`` and ``visit`` (a deficiency, an instrument use) or
     a mapping with those keys."""
-    from ..integrity import SignatureStatus
-
     unsigned = SignatureStatus("unsigned")
 
     def signature_of(thing: Any) -> Any:

@@ -229,7 +229,8 @@ def harmonic_spectrum(samples: ArrayLike, sample_interval: float,
         windows -= 1
     bin_count = orders * cycles + cycles // 2 + 2
     correction = 1.0 / _block_mean_response(
-        np.arange(bin_count) * (frequency / cycles), factor, interval)
+        np.arange(bin_count, dtype=np.float64) * np.float64(frequency / cycles), factor,
+        interval)
     squares_components = np.zeros(orders)
     squares_subgroups = np.zeros(orders)
     squares_groups = np.zeros(orders)

@@ -8,8 +8,8 @@ from __future__ import annotations
 
 import re
 
-from ..computations import ComputationError
-from ..computations.capacitors import tolerance_code
+from .computations import ComputationError
+from .computations.capacitors import tolerance_code
 
 __all__ = ["tolerance_window", "tolerance_window_error"]
 
