@@ -42,6 +42,10 @@ LAZY_IMPORTS: dict[tuple[str, str], str] = {
         "numpy only when a result holds a capture; check imports results",
     ("acceptance.computations.uncertainty._format", "numpy"):
         "numpy's float formatting; check's instrument checks must not import numpy",
+    ("acceptance.cli", "traceback"):
+        "every command starts through cli.py; the traceback module only for --debug",
+    ("acceptance.cli", "shlex"):
+        "every command starts through cli.py; shlex only to quote a failed command line",
     ("acceptance.integrity", "cryptography"):
         "cryptography (about 0.1 s) only when a key signs or a signature is verified",
     # The build's in-function imports, while it is one module (PDF stack, package parts,
