@@ -5,9 +5,7 @@ from __future__ import annotations
 import argparse
 import importlib
 import os
-import shlex
 import sys
-import traceback
 from collections.abc import Sequence
 
 from . import __version__
@@ -80,6 +78,8 @@ def main(argv: Sequence[str] | None = None) -> int:
         # A fault of the tool, whatever the input: say so plainly and ask for a report; the
         # traceback is for whoever fixes it (--debug), not for the person at the machine.
         if debug:
+            import traceback
+
             traceback.print_exc(file=sys.stderr)
         print(f"internal error: {type(error).__name__}: {error}", file=sys.stderr)
         print(f"This is a fault in acceptance {__version__}, not in your files. Please report "
@@ -99,6 +99,8 @@ def _run(argv: list[str]) -> int:
 
 
 def _command_line(argv: list[str]) -> str:
+    import shlex
+
     return shlex.join(["acceptance", *argv])
 
 

@@ -42,6 +42,10 @@ LAZY_IMPORTS: dict[tuple[str, str], str] = {
         "numpy only when a result holds a capture; check imports results",
     ("acceptance.computations.uncertainty._format", "numpy"):
         "numpy's float formatting; check's instrument checks must not import numpy",
+    ("acceptance.cli", "traceback"):
+        "every command starts through cli.py; the traceback module only for --debug",
+    ("acceptance.cli", "shlex"):
+        "every command starts through cli.py; shlex only to quote a failed command line",
     ("acceptance.integrity", "cryptography"):
         "cryptography (about 0.1 s) only when a key signs or a signature is verified",
     ("acceptance.build.package", "acceptance.rendering.package"):
@@ -252,10 +256,8 @@ def test_low_layers_import_nothing_above_them(layer):
 
 
 def _lazy_key(found: Import) -> tuple[str, str] | None:
-    for key in ((found.importer, found.target), (found.importer, "*")):
-        if key in LAZY_IMPORTS:
-            return key
-    return None
+    key = (found.importer, found.target)
+    return key if key in LAZY_IMPORTS else None
 
 
 def test_imports_inside_functions_only_where_listed():
