@@ -362,6 +362,7 @@ class VisitResult:
     parts_replaced: tuple[PartReplacement, ...] = ()
     open_required: int = 0  # required items whose verdict is open (as found)
     deficiencies: tuple[Deficiency, ...] = ()  # open points as found, in checklist order
+    as_left_deficiencies: tuple[Deficiency, ...] = ()  # open points of as_left (not in JSON)
     instrument_uses: tuple[InstrumentUse, ...] = ()  # by instrument id
 
     @property

@@ -11,6 +11,8 @@ colour [S]).
 
 from __future__ import annotations
 
+import dataclasses
+
 from acceptance.commands.check import machine_lines
 from acceptance.commands.compare import comparisons
 from acceptance.evaluation import evaluate_job
@@ -117,3 +119,18 @@ def test_the_demo_shows_every_kind_of_fact() -> None:
     assert result.deficiencies
     assert any(use for v in result.visits for use in v.instrument_uses)
     assert any(m.trends for m in result.machines)
+
+
+def test_check_lists_the_punch_list_evaluation_made() -> None:
+    # The demo has a visit re-measured as left: check shows those items as left.
+    result = evaluate_job(load_job(DEMO_JOB))
+    assert any(v.as_left for v in result.visits)
+    for machine in result.machines:
+        for visit in machine.visits:
+            text = "\n".join(machine_lines(dataclasses.replace(machine, visits=(visit,))))
+            left = {item.key for item in visit.as_left}
+            for point in visit.deficiencies:
+                where = point.item + (f"[{point.element}]" if point.element else "")
+                assert (f"{where}: " in text) is (point.item not in left)
+            for point in visit.as_left_deficiencies:
+                assert f"as left: {point.item}" in text

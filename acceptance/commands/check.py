@@ -37,9 +37,8 @@ def register(parser: argparse.ArgumentParser) -> None:
 
 
 def machine_lines(machine: MachineResult, show_all: bool = False) -> list[str]:
-    """One machine's section of the summary: its visits and what needs attention."""
-    from ..results import Verdict
-
+    """One machine's section of the summary: its visits and what needs attention (the
+    punch list evaluation made: as left for the items re-measured, else as found)."""
     lines = ["", f"{machine.name} [{machine.id}]"]
     if not machine.visits:
         lines.append("  no visits recorded")
@@ -49,14 +48,13 @@ def machine_lines(machine: MachineResult, show_all: bool = False) -> list[str]:
                      + (f" as left (as found: {visit.as_found_state.value})"
                         if visit.as_found_state is not None else ""))
         left = {item.key: item for item in visit.as_left}
+        points = {(d.item, d.element) for d in visit.deficiencies if d.item not in left}
+        points |= {(d.item, d.element) for d in visit.as_left_deficiencies}
         for found in visit.items:
             item = left.get(found.key, found)
             label = "as left: " if found.key in left else ""
-            if not show_all and not item.verdict.is_open:
-                continue
             for element in item.elements or ():
-                if not show_all and (not element.verdict.is_open or (
-                        not item.required and element.verdict is Verdict.NOT_TESTED)):
+                if not show_all and (item.key, element.element) not in points:
                     continue
                 where = f"{label}{item.key}" + (f"[{element.element}]" if element.element
                                                  else "")
