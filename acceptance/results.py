@@ -259,6 +259,23 @@ class ChangeClass(str, Enum):
     def slug(self) -> str:
         return self.value.replace(" ", "-")
 
+    @property
+    def word(self) -> str:
+        return self.value
+
+    @property
+    def mark(self) -> str:
+        return _CHANGE_MARKS[self]
+
+
+# Hollow, then filled, as a change grows: distinct in grey-scale and beside its word.
+_CHANGE_MARKS: dict[ChangeClass, str] = {
+    ChangeClass.STEADY: "=",
+    ChangeClass.WATCH: "△",
+    ChangeClass.ACT: "▲",
+    ChangeClass.NOT_COMPARABLE: "?",
+}
+
 
 @dataclass(frozen=True)
 class Change:

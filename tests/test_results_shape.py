@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import dataclasses
 
+from acceptance.cli import main
 from acceptance.commands.check import machine_lines
 from acceptance.commands.compare import comparisons
 from acceptance.evaluation import evaluate_job
@@ -20,7 +21,7 @@ from acceptance.history import compare_visits, trend_series
 from acceptance.loading import load_job
 from acceptance.rendering.html import make_environment
 from acceptance.rendering.review import index_options
-from acceptance.results import Severity, Verdict, VisitState
+from acceptance.results import ChangeClass, Severity, Verdict, VisitState
 
 from .conftest import DEMO_JOB
 from .test_evaluation import PASSING_SUPPLY, rollup_job
@@ -81,6 +82,23 @@ def test_each_mark_has_one_definition_for_the_terminal_the_pages_and_the_filters
     assert f"  {VisitState.PASS_WITH_DEFICIENCIES.mark} v1 " in lines
     states = index_options(result.result)["states"]
     assert [(s["label"], s["mark"]) for s in states] == [(s.word, s.mark) for s in VisitState]
+
+
+def test_change_classes_have_one_mark_for_compare_and_the_pages(make_job, capsys) -> None:
+    assert len({c.mark for c in ChangeClass}) == len(ChangeClass)
+    env = make_environment()
+    for classification in ChangeClass:
+        badge = env.from_string('{% from "_changes.html" import change_badge %}'
+                                "{{ change_badge(c) }}").render(c=classification)
+        assert f">{classification.mark}</span> {classification.word}</span>" in badge
+    root = make_job(machine=MACHINE, visits={
+        "v1": _visit("commissioning", "2026-03-10", _winding("28.6 Ω", "20.0 °C")),
+        "v2": _visit("periodic", "2026-09-10", _winding("27.0 Ω", "20.0 °C")),
+    })
+    # 100·(27.0/28.6 − 1) = −5.59 % ≥ act 5 % (windings checklist [P])
+    assert main(["compare", str(root)]) == 1
+    assert f"  {ChangeClass.ACT.mark:<2} {ChangeClass.ACT.word:<14} windings.resistance" in \
+        capsys.readouterr().out
 
 
 def test_changes_and_trends_are_computed_once_and_read_after(make_job) -> None:
