@@ -153,7 +153,10 @@ class CheckSpec(_Strict):
                           "that needs the readings of every element, such as voltage unbalance")
 
 
-AnyQuantity = _quantity(*Dimension, example="5 %")
+if TYPE_CHECKING:
+    AnyQuantity = Quantity
+else:
+    AnyQuantity = _quantity(*Dimension, example="5 %")
 
 
 class CompareSpec(_Strict):
