@@ -81,7 +81,7 @@ def machine_lines(machine: MachineResult, show_all: bool = False) -> list[str]:
 
 def totals_line(states: list[str]) -> str:
     """The last line of the summary: how many visits are in each state."""
-    from ..results import VisitState, count_states
+    from ..verdicts import VisitState, count_states
 
     counts = count_states(VisitState(state) for state in states)
     return f"{len(states)} visits: " + ", ".join(
@@ -140,7 +140,7 @@ def _evaluate(root: Path, variant: str, machines: list[str] | None
 
 
 def _print(variant: str, head: Any, sections: list[dict[str, Any]]) -> int:
-    from ..results import VisitState
+    from ..verdicts import VisitState
 
     states = [state for section in sections for state in section["states"]]
     signatures = "".join(section["signatures"] for section in sections)
