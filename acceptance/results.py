@@ -3,18 +3,18 @@
 These objects are computed once, in :mod:`acceptance.evaluation` (and
 :mod:`acceptance.history` for changes and trends), and only displayed afterwards
 (terminal, HTML, PDF, JSON): every fact an output shows is a field here, decided
-there. Each verdict and state has one word and one mark, defined here and read by
-the terminal, the pages and the index filters. ``to_json`` writes the versioned
-results schema documented in README.md with one encoder per record.
+there. The verdicts, states and change classes, each with its one word and mark,
+are defined in :mod:`acceptance.verdicts` and re-exported here. ``to_json`` writes
+the versioned results schema documented in README.md with one encoder per record.
 """
 
 from __future__ import annotations
 
 import datetime as _dt
-from collections.abc import Iterable
 from dataclasses import dataclass, field
-from enum import Enum
 from typing import TYPE_CHECKING, Any
+
+from .verdicts import ChangeClass, Severity, Verdict, VisitState, count_states, worst
 
 if TYPE_CHECKING:  # numpy stays out of check's start-up unless a capture is attached
     from .captures import CaptureAnalysis
@@ -28,110 +28,6 @@ __all__ = [
 ]
 
 RESULTS_SCHEMA = "acceptance-results/1"
-
-
-class Verdict(str, Enum):
-    """Outcome of one check or item. Conditional statements follow ILAC-G8:09/2019 cl. 4.2."""
-
-    PASS = "pass"
-    CONDITIONAL_PASS = "conditional pass"
-    CONDITIONAL_FAIL = "conditional fail"
-    FAIL = "fail"
-    UNDETERMINED = "undetermined"  # the data cannot decide (e.g. no nameplate value)
-    NOT_TESTED = "not tested"
-    NOT_APPLICABLE = "not applicable"
-    RECORDED = "recorded"  # value kept for the record; no criterion applies
-
-    @property
-    def is_failure(self) -> bool:
-        return self in (Verdict.FAIL, Verdict.CONDITIONAL_FAIL)
-
-    @property
-    def is_open(self) -> bool:
-        """Needs someone's attention before the item can be closed."""
-        return self in (Verdict.FAIL, Verdict.CONDITIONAL_FAIL, Verdict.UNDETERMINED,
-                        Verdict.NOT_TESTED, Verdict.CONDITIONAL_PASS)
-
-    @property
-    def slug(self) -> str:
-        return self.value.replace(" ", "-")
-
-    @property
-    def word(self) -> str:
-        return self.value
-
-    @property
-    def mark(self) -> str:
-        """The shape shown before the word, so a record reads in grey-scale print."""
-        return _VERDICT_MARKS[self]
-
-
-# Each verdict has a word and a shape, so a record reads in grey-scale print and for readers
-# who do not tell colours apart (never colour alone). A conditional statement is the plain
-# verdict's shape with a question mark: the decision sits inside the guard band (ILAC-G8).
-_VERDICT_MARKS: dict[Verdict, str] = {
-    Verdict.PASS: "✓",
-    Verdict.CONDITIONAL_PASS: "✓?",
-    Verdict.CONDITIONAL_FAIL: "✗?",
-    Verdict.FAIL: "✗",
-    Verdict.UNDETERMINED: "?",
-    Verdict.NOT_TESTED: "○",
-    Verdict.NOT_APPLICABLE: "–",
-    Verdict.RECORDED: "·",
-}
-
-# Worst first: a list of verdicts rolls up to the earliest that occurs.
-_ORDER = [Verdict.FAIL, Verdict.CONDITIONAL_FAIL, Verdict.UNDETERMINED, Verdict.NOT_TESTED,
-          Verdict.CONDITIONAL_PASS, Verdict.PASS, Verdict.RECORDED, Verdict.NOT_APPLICABLE]
-
-
-def worst(verdicts: list[Verdict], empty: Verdict = Verdict.NOT_APPLICABLE) -> Verdict:
-    if not verdicts:
-        return empty
-    return min(verdicts, key=_ORDER.index)
-
-
-class VisitState(str, Enum):
-    """A visit as a whole."""
-
-    PASS = "pass"
-    PASS_WITH_DEFICIENCIES = "pass with deficiencies"
-    INCOMPLETE = "incomplete"
-    FAIL = "fail"
-
-    @property
-    def slug(self) -> str:
-        return self.value.replace(" ", "-")
-
-    @property
-    def word(self) -> str:
-        return self.value
-
-    @property
-    def mark(self) -> str:
-        return _STATE_MARKS[self]
-
-
-_STATE_MARKS: dict[VisitState, str] = {
-    VisitState.PASS: "✓",
-    VisitState.PASS_WITH_DEFICIENCIES: "!",
-    VisitState.INCOMPLETE: "○",
-    VisitState.FAIL: "✗",
-}
-
-
-def count_states(states: Iterable[VisitState]) -> tuple[tuple[VisitState, int], ...]:
-    """How many visits are in each state, every state in its order (zeros included)."""
-    listed = list(states)
-    return tuple((state, listed.count(state)) for state in VisitState)
-
-
-class Severity(str, Enum):
-    """How much an open point weighs on handover."""
-
-    SAFETY_CRITICAL = "safety-critical"  # a safety-critical item failed
-    BLOCKS_ACCEPTANCE = "blocks acceptance"  # a failure, or a required item still open
-    ADVISORY = "advisory"  # open, but neither required nor failed
 
 
 @dataclass(frozen=True)
@@ -247,19 +143,6 @@ class ChecklistResult:
     items: tuple[ItemResult, ...]
 
 
-class ChangeClass(str, Enum):
-    """How far a value has moved from the baseline, against the item's thresholds."""
-
-    STEADY = "steady"
-    WATCH = "watch"
-    ACT = "act"
-    NOT_COMPARABLE = "not comparable"
-
-    @property
-    def slug(self) -> str:
-        return self.value.replace(" ", "-")
-
-
 @dataclass(frozen=True)
 class Change:
     """One value of one item and element, baseline against a later visit."""
@@ -362,6 +245,7 @@ class VisitResult:
     parts_replaced: tuple[PartReplacement, ...] = ()
     open_required: int = 0  # required items whose verdict is open (as found)
     deficiencies: tuple[Deficiency, ...] = ()  # open points as found, in checklist order
+    as_left_deficiencies: tuple[Deficiency, ...] = ()  # open points of as_left (not in JSON)
     instrument_uses: tuple[InstrumentUse, ...] = ()  # by instrument id
 
     @property

@@ -10,7 +10,7 @@ from pathlib import Path
 import pytest
 
 from acceptance import cli
-from acceptance.results import RESULTS_SCHEMA, Verdict, VisitState
+from acceptance.results import RESULTS_SCHEMA, Severity, Verdict, VisitState
 from tests.conftest import DEMO_JOB, PASSING_SUPPLY
 
 SCRIPT = Path(sys.executable).with_name("acceptance")
@@ -92,7 +92,10 @@ DOCUMENTED = {
     "override": {"item", "check", "reason", "source", "params"},
     "machine": {"id", "name", "kind", "area", "nameplate", "latest_state", "visits"},
     "visit": {"id", "machine", "kind", "date", "performed_by", "state", "counts", "conditions",
-              "notes", "attachments", "sign_off", "source_file", "checklists"},
+              "notes", "attachments", "sign_off", "source_file", "checklists", "open_required",
+              "deficiencies", "instrument_uses"},
+    "deficiency": {"item", "title", "element", "reading", "verdict", "severity"},
+    "instrument_use": {"instrument", "calibration", "valid"},
     "checklist": {"id", "title", "purpose", "version", "origin", "caution", "verdict", "items"},
     "item": {"checklist", "id", "title", "unit", "safety_critical", "required", "verdict",
              "guidance", "caution", "elements"},
@@ -105,6 +108,7 @@ DOCUMENTED = {
 
 VERDICTS = {v.value for v in Verdict}
 STATES = {s.value for s in VisitState}
+SEVERITIES = {s.value for s in Severity}
 
 
 def assert_documented_shape(data: dict) -> int:
@@ -123,6 +127,13 @@ def assert_documented_shape(data: dict) -> int:
             assert DOCUMENTED["visit"] <= visit.keys()
             assert visit["state"] in STATES
             assert set(visit["counts"]) == VERDICTS
+            assert isinstance(visit["open_required"], int)
+            for point in visit["deficiencies"]:
+                assert DOCUMENTED["deficiency"] <= point.keys()
+                assert point["verdict"] in VERDICTS and point["severity"] in SEVERITIES
+            for use in visit["instrument_uses"]:
+                assert DOCUMENTED["instrument_use"] <= use.keys()
+                assert isinstance(use["valid"], bool) and use["calibration"]
             for checklist in visit["checklists"]:
                 assert DOCUMENTED["checklist"] <= checklist.keys()
                 assert checklist["verdict"] in VERDICTS

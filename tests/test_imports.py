@@ -32,6 +32,8 @@ LAZY_IMPORTS: dict[tuple[str, str], str] = {
     # build's modules; no import statement to list.
     ("acceptance.commands.check", "acceptance.evaluation"):
         "check reprints cached sections without the model, the evaluation or YAML",
+    ("acceptance.commands.check", "acceptance.results"):
+        "check reprints cached sections without the result records",
     ("acceptance.commands.check", "acceptance.loading"):
         "check reprints cached sections without the model (pydantic) or YAML",
     ("acceptance.commands.check", "acceptance.integrity"):

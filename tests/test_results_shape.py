@@ -11,6 +11,9 @@ colour [S]).
 
 from __future__ import annotations
 
+import dataclasses
+
+from acceptance.cli import main
 from acceptance.commands.check import machine_lines
 from acceptance.commands.compare import comparisons
 from acceptance.evaluation import evaluate_job
@@ -18,7 +21,7 @@ from acceptance.history import compare_visits, trend_series
 from acceptance.loading import load_job
 from acceptance.rendering.html import make_environment
 from acceptance.rendering.review import index_options
-from acceptance.results import Severity, Verdict, VisitState
+from acceptance.results import ChangeClass, Severity, Verdict, VisitState
 
 from .conftest import DEMO_JOB
 from .test_evaluation import PASSING_SUPPLY, rollup_job
@@ -81,6 +84,23 @@ def test_each_mark_has_one_definition_for_the_terminal_the_pages_and_the_filters
     assert [(s["label"], s["mark"]) for s in states] == [(s.word, s.mark) for s in VisitState]
 
 
+def test_change_classes_have_one_mark_for_compare_and_the_pages(make_job, capsys) -> None:
+    assert len({c.mark for c in ChangeClass}) == len(ChangeClass)
+    env = make_environment()
+    for classification in ChangeClass:
+        badge = env.from_string('{% from "_changes.html" import change_badge %}'
+                                "{{ change_badge(c) }}").render(c=classification)
+        assert f">{classification.mark}</span> {classification.word}</span>" in badge
+    root = make_job(machine=MACHINE, visits={
+        "v1": _visit("commissioning", "2026-03-10", _winding("28.6 Ω", "20.0 °C")),
+        "v2": _visit("periodic", "2026-09-10", _winding("27.0 Ω", "20.0 °C")),
+    })
+    # 100·(27.0/28.6 − 1) = −5.59 % ≥ act 5 % (windings checklist [P])
+    assert main(["compare", str(root)]) == 1
+    assert f"  {ChangeClass.ACT.mark:<2} {ChangeClass.ACT.word:<14} windings.resistance" in \
+        capsys.readouterr().out
+
+
 def test_changes_and_trends_are_computed_once_and_read_after(make_job) -> None:
     root = make_job(machine=MACHINE, visits={
         "v1": _visit("commissioning", "2026-03-10", _winding("28.6 Ω", "21.0 °C")),
@@ -117,3 +137,18 @@ def test_the_demo_shows_every_kind_of_fact() -> None:
     assert result.deficiencies
     assert any(use for v in result.visits for use in v.instrument_uses)
     assert any(m.trends for m in result.machines)
+
+
+def test_check_lists_the_punch_list_evaluation_made() -> None:
+    # The demo has a visit re-measured as left: check shows those items as left.
+    result = evaluate_job(load_job(DEMO_JOB))
+    assert any(v.as_left for v in result.visits)
+    for machine in result.machines:
+        for visit in machine.visits:
+            text = "\n".join(machine_lines(dataclasses.replace(machine, visits=(visit,))))
+            left = {item.key for item in visit.as_left}
+            for point in visit.deficiencies:
+                where = point.item + (f"[{point.element}]" if point.element else "")
+                assert (f"{where}: " in text) is (point.item not in left)
+            for point in visit.as_left_deficiencies:
+                assert f"as left: {point.item}" in text

@@ -19,10 +19,11 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 from .. import check_cache
-from ..results import MachineResult, Verdict, VisitState, count_states, machine_to_json, to_json
+from ..verdicts import VisitState, count_states
 
 if TYPE_CHECKING:
     from ..loading import Job, LoadedMachine
+    from ..results import MachineResult
 
 # json.dumps(indent=2) puts the top-level keys two spaces in and the items of their lists four.
 _JSON_KEY_INDENT = "  "
@@ -38,7 +39,8 @@ def register(parser: argparse.ArgumentParser) -> None:
 
 
 def machine_lines(machine: MachineResult, show_all: bool = False) -> list[str]:
-    """One machine's section of the summary: its visits and what needs attention."""
+    """One machine's section of the summary: its visits and what needs attention (the
+    punch list evaluation made: as left for the items re-measured, else as found)."""
     lines = ["", f"{machine.name} [{machine.id}]"]
     if not machine.visits:
         lines.append("  no visits recorded")
@@ -48,14 +50,13 @@ def machine_lines(machine: MachineResult, show_all: bool = False) -> list[str]:
                      + (f" as left (as found: {visit.as_found_state.value})"
                         if visit.as_found_state is not None else ""))
         left = {item.key: item for item in visit.as_left}
+        points = {(d.item, d.element) for d in visit.deficiencies if d.item not in left}
+        points |= {(d.item, d.element) for d in visit.as_left_deficiencies}
         for found in visit.items:
             item = left.get(found.key, found)
             label = "as left: " if found.key in left else ""
-            if not show_all and not item.verdict.is_open:
-                continue
             for element in item.elements or ():
-                if not show_all and (not element.verdict.is_open or (
-                        not item.required and element.verdict is Verdict.NOT_TESTED)):
+                if not show_all and (item.key, element.element) not in points:
                     continue
                 where = f"{label}{item.key}" + (f"[{element.element}]" if element.element
                                                  else "")
@@ -108,6 +109,8 @@ def _evaluate(root: Path, variant: str, machines: list[str] | None
     machine, each with its printed text, its visits' states and its sign-off report."""
     from ..evaluation import evaluate_job
     from ..loading import load_job
+    from ..results import machine_to_json, to_json
+
     job = load_job(root, machines=machines)  # raises InputError: nothing is cached then
     result = evaluate_job(job)
     loaded = {machine.id: machine for machine in job.machines}

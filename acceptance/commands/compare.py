@@ -22,9 +22,6 @@ from ..evaluation import (
 from ..loading import load_job
 from ..results import ChangeClass, JobResult, MachineResult
 
-_MARK = {ChangeClass.STEADY: "=", ChangeClass.WATCH: "!", ChangeClass.ACT: "!!",
-         ChangeClass.NOT_COMPARABLE: "?"}
-
 
 def register(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("job", type=Path, help="the job folder (holding job.yaml)")
@@ -77,7 +74,7 @@ def lines(found: list[VisitComparison]) -> list[str]:
                    f"against baseline {comparison.baseline} ({comparison.baseline_date})")
         for change in comparison.changes:
             where = change.item + (f"[{change.element}]" if change.element else "")
-            text = (f"  {_MARK[change.classification]:<2} {change.classification.value:<14} "
+            text = (f"  {change.classification.mark:<2} {change.classification.word:<14} "
                     f"{where}: {change.quantity} {change.baseline_text} → {change.text}")
             if change.classification is not ChangeClass.NOT_COMPARABLE:
                 text += f" ({change.change_text})"

@@ -279,7 +279,8 @@ def _evaluate_visit(visit: LoadedVisit, job: Job, machine: LoadedMachine) -> Vis
                                                  if e.element in re_measured[key]))
         for item in left.items if (key := (item.checklist, item.id)) in re_measured)
     return dataclasses.replace(found, state=left.state, as_found_state=found.state,
-                               as_left=as_left)
+                               as_left=as_left,
+                               as_left_deficiencies=deficiencies(found, as_left))
 
 
 def _evaluate_readings(visit: LoadedVisit, job: Job, machine: LoadedMachine) -> VisitResult:

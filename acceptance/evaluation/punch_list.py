@@ -6,6 +6,8 @@ same list and no page or build step judges a point again.
 
 from __future__ import annotations
 
+from collections.abc import Iterable
+
 from ..results import Deficiency, ElementResult, ItemResult, Severity, Verdict, VisitResult
 
 __all__ = ["deficiencies", "open_required", "severity"]
@@ -26,14 +28,16 @@ def _is_open(item: ItemResult, element: ElementResult) -> bool:
                                         or element.verdict is not Verdict.NOT_TESTED)
 
 
-def deficiencies(visit: VisitResult) -> tuple[Deficiency, ...]:
-    """Every open element of ``visit`` as found, in checklist order."""
+def deficiencies(visit: VisitResult,
+                 items: Iterable[ItemResult] | None = None) -> tuple[Deficiency, ...]:
+    """Every open element of ``visit`` as found (or of ``items``), in checklist order."""
     return tuple(
         Deficiency(machine=visit.machine, visit=visit.id, item=item.key, title=item.title,
                    element=element.element, reading=element.reading, verdict=element.verdict,
                    severity=severity(item, element.verdict),
                    anchor=f"{item.checklist}-{item.id}")
-        for item in visit.items for element in item.elements if _is_open(item, element))
+        for item in (visit.items if items is None else items) for element in item.elements
+        if _is_open(item, element))
 
 
 def open_required(visit: VisitResult) -> int:
