@@ -178,3 +178,12 @@ def test_the_package_and_the_records_pass_an_independent_pdf_check(two_builds):
                                  text=True)
         assert checked.returncode == 0, (name, checked.stdout, checked.stderr)
         assert "No syntax or stream encoding errors found" in checked.stdout
+
+
+def test_the_package_parts_carry_the_package_metadata_not_a_records(two_builds):
+    # The deficiencies and the instrument register are parts of the site package: laid out
+    # with its title, never with the metadata of whichever visit record came last.
+    _job, site, _second = two_builds
+    for name in ("deficiencies", "instruments"):
+        title = PdfReader(site / ".acceptance-package" / f"{name}.pdf").metadata.title
+        assert title.startswith("Site package: Test job"), (name, title)

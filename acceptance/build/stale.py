@@ -138,13 +138,14 @@ def _archival_tasks(ctx: BuildContext, info: PdfInfo) -> list[PdfTask]:
             machine, visit = visits[task.pdf]
             sources = tuple(visit_sources(job, machine, visit))
             signature = ctx.signatures[f"{machine.id}/{visit.id}"]
-            info = visit_pdf_info(machine, results[task.pdf], signature.phrase)
-            key = hashlib.sha256(task.key.encode() + repr(info).encode())
+            record = visit_pdf_info(machine, results[task.pdf], signature.phrase)
+            key = hashlib.sha256(task.key.encode() + repr(record).encode())
             for source in sources:
                 key.update(source.name.encode() + b"\0" + hashlib.sha256(source.data).digest())
-            task = dataclasses.replace(task, attachments=sources, info=info,
+            task = dataclasses.replace(task, attachments=sources, info=record,
                                        key=key.hexdigest())
         tasks.append(task)
+    # The package's own parts carry the package's metadata, never a record's.
     parts = []
     for _title, page in BACK_PARTS:
         key = hashlib.sha256(shared + page.encode() + b"\0" + files[page] + repr(info).encode())
