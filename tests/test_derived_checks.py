@@ -272,7 +272,9 @@ def test_polarization_index_passes_class_f(make_job, evaluate, step):
 # ------------------------------------------------------------------ bonding
 
 
-def _bonding_job(make_job, reading: str):
+def _bonding_job(make_job, reading: str | dict, test_current: str | None = "10 A"):
+    if isinstance(reading, str) and test_current is not None:
+        reading = {"value": reading, "test_current": test_current}
     machine = {"bonding_points": [{"id": "frame", "name": "Frame", "material": "copper",
                                    "cross_section": "2.5 mm²", "length": "15 m"}],
                "checklists": ["bonding"]}
@@ -293,6 +295,38 @@ def test_bonding_far_above_expected_fails(make_job, evaluate):
     # 0.150 Ω is 35 % above the expected 0.111 Ω, beyond the checklist's 25 % margin [P].
     check = evaluate(_bonding_job(make_job, "0.150 Ω")).check("bonding.continuity", "frame")
     assert check.verdict is Verdict.FAIL
+
+
+def test_bonding_without_its_test_current_is_undetermined(make_job, evaluate):
+    # IEC 60204-1:2016 cl. 18.2.2 defines the test by its current (0.2 A to about 10 A) [M]:
+    # a resistance with no current stated is not known to be that test.
+    check = evaluate(_bonding_job(make_job, "0.120 Ω", test_current=None)).check(
+        "bonding.continuity", "frame")
+    assert check.verdict is Verdict.UNDETERMINED
+    assert "test_current" in (check.message or "")
+
+
+@pytest.mark.parametrize(("current", "verdict"), [
+    ("0.1 A", Verdict.UNDETERMINED),   # below the 0.2 A of IEC 60204-1:2016 18.2.2 [M]
+    ("0.2 A", Verdict.PASS),           # the lower end of the range [M]
+    ("10 A", Verdict.PASS),            # "about 10 A" [M]
+    ("25 A", Verdict.UNDETERMINED),    # above the range as stated [M]
+])
+def test_bonding_test_current_against_iec_60204_1_2016_18_2_2(make_job, evaluate, step,
+                                                             current, verdict):
+    check = evaluate(_bonding_job(make_job, "0.120 Ω", test_current=current)).check(
+        "bonding.continuity", "frame")
+    assert check.verdict is verdict
+    assert "IEC 60204-1:2016 cl. 18.2.2" in next(
+        s.text for s in check.steps if s.label == "test current")
+
+
+def test_bonding_cites_table_9_with_the_2005_edition(make_job, evaluate):
+    check = evaluate(_bonding_job(make_job, "0.120 Ω")).check("bonding.continuity", "frame")
+    # The maximum voltage drops at 10 A are IEC 60204-1:2005 Table 9 [M]; 2016 has none.
+    assert any(s.label.startswith("for comparison: IEC 60204-1:2005 cl. 18.2.2 Table 9")
+               for s in check.steps)
+    assert "18.2.2" in check.source
 
 
 def test_bonding_point_names_are_checked(make_job):

@@ -270,12 +270,25 @@ def _bonding_resistance(reading: Reading, context: Context, params: dict[str, An
         Step("allowed", f"R_exp × (1 + {margin:g} %) = {_fmt(upper, Dimension.RESISTANCE, 'Ω')}",
              upper, "Ω", formula="R ≤ R_exp · (1 + margin)"),
     ]
+    test_current = reading.extras.get("test_current")
+    if test_current is None:
+        return Outcome(Verdict.UNDETERMINED, tolerance.describe(), tuple(steps),
+                       message="record the test current with the reading (test_current: "
+                               "10 A): IEC 60204-1:2016 cl. 18.2.2 asks for 0.2 A to about "
+                               "10 A")
+    current = res.iec_60204_1_bonding_test_current(test_current.value)
+    steps.insert(0, Step("test current", f"{test_current.format()} — {current.describe()} [M]",
+                         test_current.value, "A"))
+    if not current.within_range:
+        return Outcome(Verdict.UNDETERMINED, tolerance.describe(), tuple(steps),
+                       message=current.message)
     try:
         table_9 = res.iec_60204_1_bonding_voltage_drop(point.cross_section.value)
     except ComputationError:
         table_9 = None
     if table_9 is not None:
-        steps.append(Step("for comparison: IEC 60204-1:2005 Table 9",
+        steps.append(Step("for comparison: IEC 60204-1:2005 cl. 18.2.2 Table 9 [M], "
+                          "not in the 2016 edition",
                           f"{table_9.describe()} → R ≤ "
                           f"{_fmt(table_9.max_resistance, Dimension.RESISTANCE, 'Ω')}",
                           table_9.max_resistance, "Ω"))
