@@ -102,6 +102,9 @@ SPECS: dict[str, RuleSpec] = {spec.name: spec for spec in (
     RuleSpec("confirmed", "the step was done (yes)", {}, record="confirmation"),
     RuleSpec("at_most", "reading ≤ limit", {"limit": Param("quantity")}),
     RuleSpec("at_least", "reading ≥ limit", {"limit": Param("quantity")}),
+    RuleSpec("absence_of_voltage", "no voltage at the isolated point: zero, or a reading "
+             "within the limit explained in its note",
+             {"limit": Param("quantity", False)}),
     RuleSpec("window", "lower ≤ reading ≤ upper",
              {"lower": Param("quantity"), "upper": Param("quantity")}),
     RuleSpec("relative_to", "reading within a percentage window of a nameplate value",
