@@ -250,6 +250,63 @@ def test_power_circuits_default_is_iec_60204_1_1_megohm_at_500_v(make_job, evalu
     assert check.verdict is Verdict.PASS
 
 
+def test_power_circuits_judged_as_measured_not_at_40_c(make_job, evaluate, step):
+    # IEC 60204-1:2016 cl. 18.3 states ≥ 1 MΩ at 500 V d.c. with no temperature
+    # correction [S]: 1.5 MΩ read at 10 °C complies as measured, although IEEE 43-2000's
+    # halving per 10 K [M] would make it 0.1875 MΩ at 40 °C.
+    root = _insulation_job(make_job, {"power_circuits": {
+        "value": "1.5 MΩ", "test_voltage": "500 V", "temperature": "10 °C"}})
+    check = evaluate(root).check("insulation.power_circuits")
+    assert check.verdict is Verdict.PASS
+    assert check.compared_value == pytest.approx(1.5e6, rel=1e-12)
+    # kept for trending only, with the edition and method named
+    assert step(check, "R at 40 °C (for trending") == pytest.approx(0.1875e6, rel=1e-12)
+    assert "IEEE 43-2000" in next(s.formula for s in check.steps
+                                  if s.label.startswith("R at 40"))
+
+
+def test_power_circuits_need_no_temperature_for_a_verdict(make_job, evaluate):
+    # IEC 60204-1:2016 cl. 18.3 needs no temperature [S].
+    root = _insulation_job(make_job, {"power_circuits": {"value": "2.5 MΩ",
+                                                         "test_voltage": "500 V"}})
+    assert evaluate(root).check("insulation.power_circuits").verdict is Verdict.PASS
+
+
+def test_power_circuits_tested_at_1000_v_is_undetermined(make_job, evaluate):
+    # IEC 60204-1:2016 cl. 18.3 asks for 500 V d.c. [S]; up to 1.5 × nominal is a tester's
+    # open-circuit voltage (IEC 61557-2) [M], 1000 V is another test.
+    root = _insulation_job(make_job, {"power_circuits": {"value": "2.5 MΩ",
+                                                         "test_voltage": "1000 V"}})
+    check = evaluate(root).check("insulation.power_circuits")
+    assert check.verdict is Verdict.UNDETERMINED
+    assert "500 V d.c." in (check.message or "")
+
+
+def test_winding_test_voltage_against_ieee_43_table_1(make_job, evaluate):
+    # IEEE 43-2013 Table 1: a winding rated below 1000 V is tested at 500 V d.c. [M]
+    root = _insulation_job(make_job, {"winding": {"w": {
+        "value": "500 MΩ", "test_voltage": "2500 V", "temperature": "40 °C"}}})
+    check = evaluate(root).check("insulation.winding", "w")
+    assert check.verdict is Verdict.UNDETERMINED
+    assert "IEEE 43-2013 Table 1" in (check.message or "")
+
+
+def test_iec_60364_6_table_6_1_reachable_from_a_checklist(make_job, evaluate, step):
+    overrides = [{"item": "insulation.power_circuits", "params": {"standard": "IEC 60364-6"},
+                  "reason": "installation circuit", "source": {"kind": "job",
+                                                               "document": "test"}}]
+    root = _insulation_job(make_job, {"power_circuits": {
+        "value": "0.8 MΩ", "test_voltage": "500 V"}}, overrides=overrides)
+    check = evaluate(root).check("insulation.power_circuits")
+    # IEC 60364-6:2016 Table 6.1: circuit up to 500 V, 500 V d.c., ≥ 1 MΩ [M]; the record
+    # names the edition and that the edition in force is in doubt.
+    assert step(check, "minimum") == pytest.approx(1e6, rel=1e-12)
+    minimum = next(s.text for s in check.steps if s.label == "minimum")
+    assert "IEC 60364-6:2016 cl. 6.4.3.3, Table 6.1" in minimum
+    assert "edition in force" in minimum
+    assert check.verdict is Verdict.FAIL
+
+
 def test_power_circuits_tested_below_500_v_is_undetermined(make_job, evaluate):
     root = _insulation_job(make_job, {"power_circuits": {
         "value": "2.5 MΩ", "test_voltage": "250 V", "temperature": "20 °C"}})
