@@ -46,6 +46,48 @@ def test_rise_by_resistance_and_its_table_7_limit(make_job, evaluate, step):
     assert check.verdict is Verdict.PASS
 
 
+def _rise_job(make_job, **winding):
+    machine = {"nameplate": {"windings": [{"id": "w", "name": "W", "material": "copper",
+                                           "thermal_class": "F", **winding}]},
+               "checklists": ["windings", "temperature_rise"]}
+    return make_job(machine=machine, visit={"readings": {
+        "windings": {"resistance": {"w": {"value": "0.800 Ω", "temperature": "20 °C"}}},
+        "temperature_rise": {"winding_rise": {"w": {"value": "1.050 Ω", "ambient": "30 °C"}}}}})
+
+
+def test_a_dc_coil_is_not_judged_by_iec_60034_1(make_job, evaluate):
+    # IEC 60034-1 covers rotating machines only [M]: a d.c. coil needs its own basis.
+    check = evaluate(_rise_job(make_job, kind="dc_coil")).check(
+        "temperature_rise.winding_rise", "w")
+    assert check.verdict is Verdict.UNDETERMINED
+    assert "hot_spot_allowance" in (check.message or "")
+
+
+def test_a_dc_coil_from_its_class_and_hot_spot_allowance(make_job, evaluate, step):
+    check = evaluate(_rise_job(make_job, kind="dc_coil", hot_spot_allowance="15 K")).check(
+        "temperature_rise.winding_rise", "w")
+    # IEC 60085:2007 Table 1, class 155 (F) [S], less 40 °C and 15 K [P]: 100 K.
+    assert step(check, "limit") == 100.0
+    assert "IEC 60085:2007" in check.source and "IEC 60034-1" not in check.source
+
+
+def test_a_transformer_takes_iec_60076_11(make_job, evaluate, step):
+    check = evaluate(_rise_job(make_job, kind="transformer")).check(
+        "temperature_rise.winding_rise", "w")
+    # IEC 60076-11:2018, class 155 (F) dry-type winding: 100 K [M], not 105 K.
+    assert step(check, "limit") == 100.0
+    assert "IEC 60076-11:2018" in check.source and "IEC 60034-1" not in check.source
+
+
+def test_a_small_or_encapsulated_machine_takes_items_1d_1e(make_job, evaluate, step):
+    check = evaluate(_rise_job(make_job, small_or_encapsulated=True)).check(
+        "temperature_rise.winding_rise", "w")
+    # IEC 60034-1:2010 Table 7 items 1d/1e, class F: 110 K [M].
+    assert step(check, "limit") == 110.0
+    assert "IEC 60034-1:2010 cl. 8.3, Table 7" in check.source
+    assert "2022" not in check.source
+
+
 # ------------------------------------------------------------------ stored energy
 
 

@@ -387,7 +387,10 @@ def _rise_by_resistance(reading: Reading, context: Context, params: dict[str, An
         limit_source = "manufacturer's rise limit for this winding"
     else:
         try:
-            limit = eng.rise_limit(winding.thermal_class, params.get("standard", "IEC 60034-1"))
+            limit = eng.rise_limit(
+                winding.thermal_class, params.get("standard", "IEC 60034-1"), winding.kind,
+                winding.small_or_encapsulated,
+                winding.hot_spot_allowance.value if winding.hot_spot_allowance else None)
         except ValueError as error:
             return Outcome(Verdict.UNDETERMINED, "Δθ ≤ class limit",
                            message=f"{error}; give the manufacturer's rise_limit for the winding")
@@ -408,8 +411,12 @@ def _rise_by_resistance(reading: Reading, context: Context, params: dict[str, An
     # ∂Δθ/∂R₂ = (k + θ₁)/R₁: how a hot-resistance uncertainty moves the rise.
     sensitivity = (constant.temperature_constant + cold.extras["temperature"].value
                    ) / cold.value.value
+    # The checklist cites IEC 60034-1; a coil, a transformer or a manufacturer's figure has
+    # another basis, and the record names that one alone.
+    replaces = winding.rise_limit is not None or winding.kind != "rotating_machine"
     return _compare(tolerance, rise, steps, sensitivity=sensitivity,
-                    compared="temperature rise Δθ", source_note=limit_source)
+                    compared="temperature rise Δθ", source_note=limit_source,
+                    source_replaces=replaces)
 
 
 def _rise_over_ambient(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
