@@ -339,6 +339,18 @@ class WindingSpec(_Strict):
         None, description="temperature the manufacturer's value is stated at")
     rise_limit: TemperatureDifference | None = Field(
         None, description="manufacturer's rise limit; default by thermal class")
+    kind: Literal["rotating_machine", "dc_coil", "transformer"] = Field(
+        "rotating_machine",
+        description="what the winding belongs to, which chooses the basis of its rise "
+                    "limit: rotating_machine (IEC 60034-1 or NEMA MG 1), dc_coil (thermal "
+                    "class less 40 °C and hot_spot_allowance) or transformer (IEC 60076-11)")
+    small_or_encapsulated: bool = Field(
+        False, description="rotating machine below 600 W, or self-cooled without a fan "
+                           "(IC 40) or with encapsulated windings: IEC 60034-1:2010 Table 7 "
+                           "items 1d/1e, 5 K higher")
+    hot_spot_allowance: TemperatureDifference | None = Field(
+        None, description="d.c. coil: how far its hottest spot runs above the average "
+                          "(manufacturer's figure)")
 
 
 class CapacitorSpec(_Strict):

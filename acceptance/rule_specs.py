@@ -102,6 +102,9 @@ SPECS: dict[str, RuleSpec] = {spec.name: spec for spec in (
     RuleSpec("confirmed", "the step was done (yes)", {}, record="confirmation"),
     RuleSpec("at_most", "reading ≤ limit", {"limit": Param("quantity")}),
     RuleSpec("at_least", "reading ≥ limit", {"limit": Param("quantity")}),
+    RuleSpec("absence_of_voltage", "no voltage at the isolated point: zero, or a reading "
+             "within the limit explained in its note",
+             {"limit": Param("quantity", False)}),
     RuleSpec("window", "lower ≤ reading ≤ upper",
              {"lower": Param("quantity"), "upper": Param("quantity")}),
     RuleSpec("relative_to", "reading within a percentage window of a nameplate value",
@@ -131,11 +134,14 @@ SPECS: dict[str, RuleSpec] = {spec.name: spec for spec in (
     RuleSpec("voltage_unbalance", "three-phase voltage unbalance by both definitions within "
              "the limit (check the last line, L3-L1)",
              {"limit": Param("ratio", False)}),
-    RuleSpec("insulation_resistance", "insulation resistance corrected to 40 °C at least the "
-             "standard's minimum",
-             {"standard": Param("text", False, ("IEC 60204-1", "IEEE 43")),
+    RuleSpec("insulation_resistance", "insulation resistance at least the standard's minimum, "
+             "as measured (IEC 60204-1, IEC 60364-6) or at 40 °C (IEEE 43)",
+             {"standard": Param("text", False, ("IEC 60204-1", "IEC 60364-6", "IEEE 43")),
               "winding_kind": Param("text", False, _IEEE_KINDS),
-              "minimum": Param("quantity", False), "reduced_section": Param("flag", False)}),
+              "minimum": Param("quantity", False), "reduced_section": Param("flag", False),
+              "selv_or_pelv": Param("flag", False),
+              "edition": Param("text", False, ("current", "earlier")),
+              "halving_interval": Param("temperature difference", False)}),
     RuleSpec("polarization_index", "IR₁₀/IR₁ at least the minimum for the thermal class",
              {"one_minute_item": Param("checklist item")}),
     RuleSpec("absorption_ratio", "IR₆₀ₛ/IR₃₀ₛ recorded with its trade-practice band",

@@ -46,6 +46,48 @@ def test_rise_by_resistance_and_its_table_7_limit(make_job, evaluate, step):
     assert check.verdict is Verdict.PASS
 
 
+def _rise_job(make_job, **winding):
+    machine = {"nameplate": {"windings": [{"id": "w", "name": "W", "material": "copper",
+                                           "thermal_class": "F", **winding}]},
+               "checklists": ["windings", "temperature_rise"]}
+    return make_job(machine=machine, visit={"readings": {
+        "windings": {"resistance": {"w": {"value": "0.800 Ω", "temperature": "20 °C"}}},
+        "temperature_rise": {"winding_rise": {"w": {"value": "1.050 Ω", "ambient": "30 °C"}}}}})
+
+
+def test_a_dc_coil_is_not_judged_by_iec_60034_1(make_job, evaluate):
+    # IEC 60034-1 covers rotating machines only [M]: a d.c. coil needs its own basis.
+    check = evaluate(_rise_job(make_job, kind="dc_coil")).check(
+        "temperature_rise.winding_rise", "w")
+    assert check.verdict is Verdict.UNDETERMINED
+    assert "hot_spot_allowance" in (check.message or "")
+
+
+def test_a_dc_coil_from_its_class_and_hot_spot_allowance(make_job, evaluate, step):
+    check = evaluate(_rise_job(make_job, kind="dc_coil", hot_spot_allowance="15 K")).check(
+        "temperature_rise.winding_rise", "w")
+    # IEC 60085:2007 Table 1, class 155 (F) [S], less 40 °C and 15 K [P]: 100 K.
+    assert step(check, "limit") == 100.0
+    assert "IEC 60085:2007" in check.source and "IEC 60034-1" not in check.source
+
+
+def test_a_transformer_takes_iec_60076_11(make_job, evaluate, step):
+    check = evaluate(_rise_job(make_job, kind="transformer")).check(
+        "temperature_rise.winding_rise", "w")
+    # IEC 60076-11:2018, class 155 (F) dry-type winding: 100 K [M], not 105 K.
+    assert step(check, "limit") == 100.0
+    assert "IEC 60076-11:2018" in check.source and "IEC 60034-1" not in check.source
+
+
+def test_a_small_or_encapsulated_machine_takes_items_1d_1e(make_job, evaluate, step):
+    check = evaluate(_rise_job(make_job, small_or_encapsulated=True)).check(
+        "temperature_rise.winding_rise", "w")
+    # IEC 60034-1:2010 Table 7 items 1d/1e, class F: 110 K [M].
+    assert step(check, "limit") == 110.0
+    assert "IEC 60034-1:2010 cl. 8.3, Table 7" in check.source
+    assert "2022" not in check.source
+
+
 # ------------------------------------------------------------------ stored energy
 
 
@@ -250,6 +292,63 @@ def test_power_circuits_default_is_iec_60204_1_1_megohm_at_500_v(make_job, evalu
     assert check.verdict is Verdict.PASS
 
 
+def test_power_circuits_judged_as_measured_not_at_40_c(make_job, evaluate, step):
+    # IEC 60204-1:2016 cl. 18.3 states ≥ 1 MΩ at 500 V d.c. with no temperature
+    # correction [S]: 1.5 MΩ read at 10 °C complies as measured, although IEEE 43-2000's
+    # halving per 10 K [M] would make it 0.1875 MΩ at 40 °C.
+    root = _insulation_job(make_job, {"power_circuits": {
+        "value": "1.5 MΩ", "test_voltage": "500 V", "temperature": "10 °C"}})
+    check = evaluate(root).check("insulation.power_circuits")
+    assert check.verdict is Verdict.PASS
+    assert check.compared_value == pytest.approx(1.5e6, rel=1e-12)
+    # kept for trending only, with the edition and method named
+    assert step(check, "R at 40 °C (for trending") == pytest.approx(0.1875e6, rel=1e-12)
+    assert "IEEE 43-2000" in next(s.formula for s in check.steps
+                                  if s.label.startswith("R at 40"))
+
+
+def test_power_circuits_need_no_temperature_for_a_verdict(make_job, evaluate):
+    # IEC 60204-1:2016 cl. 18.3 needs no temperature [S].
+    root = _insulation_job(make_job, {"power_circuits": {"value": "2.5 MΩ",
+                                                         "test_voltage": "500 V"}})
+    assert evaluate(root).check("insulation.power_circuits").verdict is Verdict.PASS
+
+
+def test_power_circuits_tested_at_1000_v_is_undetermined(make_job, evaluate):
+    # IEC 60204-1:2016 cl. 18.3 asks for 500 V d.c. [S]; up to 1.5 × nominal is a tester's
+    # open-circuit voltage (IEC 61557-2) [M], 1000 V is another test.
+    root = _insulation_job(make_job, {"power_circuits": {"value": "2.5 MΩ",
+                                                         "test_voltage": "1000 V"}})
+    check = evaluate(root).check("insulation.power_circuits")
+    assert check.verdict is Verdict.UNDETERMINED
+    assert "500 V d.c." in (check.message or "")
+
+
+def test_winding_test_voltage_against_ieee_43_table_1(make_job, evaluate):
+    # IEEE 43-2013 Table 1: a winding rated below 1000 V is tested at 500 V d.c. [M]
+    root = _insulation_job(make_job, {"winding": {"w": {
+        "value": "500 MΩ", "test_voltage": "2500 V", "temperature": "40 °C"}}})
+    check = evaluate(root).check("insulation.winding", "w")
+    assert check.verdict is Verdict.UNDETERMINED
+    assert "IEEE 43-2013 Table 1" in (check.message or "")
+
+
+def test_iec_60364_6_table_6_1_reachable_from_a_checklist(make_job, evaluate, step):
+    overrides = [{"item": "insulation.power_circuits", "params": {"standard": "IEC 60364-6"},
+                  "reason": "installation circuit", "source": {"kind": "job",
+                                                               "document": "test"}}]
+    root = _insulation_job(make_job, {"power_circuits": {
+        "value": "0.8 MΩ", "test_voltage": "500 V"}}, overrides=overrides)
+    check = evaluate(root).check("insulation.power_circuits")
+    # IEC 60364-6:2016 Table 6.1: circuit up to 500 V, 500 V d.c., ≥ 1 MΩ [M]; the record
+    # names the edition and that the edition in force is in doubt.
+    assert step(check, "minimum") == pytest.approx(1e6, rel=1e-12)
+    minimum = next(s.text for s in check.steps if s.label == "minimum")
+    assert "IEC 60364-6:2016 cl. 6.4.3.3, Table 6.1" in minimum
+    assert "edition in force" in minimum
+    assert check.verdict is Verdict.FAIL
+
+
 def test_power_circuits_tested_below_500_v_is_undetermined(make_job, evaluate):
     root = _insulation_job(make_job, {"power_circuits": {
         "value": "2.5 MΩ", "test_voltage": "250 V", "temperature": "20 °C"}})
@@ -272,7 +371,9 @@ def test_polarization_index_passes_class_f(make_job, evaluate, step):
 # ------------------------------------------------------------------ bonding
 
 
-def _bonding_job(make_job, reading: str):
+def _bonding_job(make_job, reading: str | dict, test_current: str | None = "10 A"):
+    if isinstance(reading, str) and test_current is not None:
+        reading = {"value": reading, "test_current": test_current}
     machine = {"bonding_points": [{"id": "frame", "name": "Frame", "material": "copper",
                                    "cross_section": "2.5 mm²", "length": "15 m"}],
                "checklists": ["bonding"]}
@@ -293,6 +394,38 @@ def test_bonding_far_above_expected_fails(make_job, evaluate):
     # 0.150 Ω is 35 % above the expected 0.111 Ω, beyond the checklist's 25 % margin [P].
     check = evaluate(_bonding_job(make_job, "0.150 Ω")).check("bonding.continuity", "frame")
     assert check.verdict is Verdict.FAIL
+
+
+def test_bonding_without_its_test_current_is_undetermined(make_job, evaluate):
+    # IEC 60204-1:2016 cl. 18.2.2 defines the test by its current (0.2 A to about 10 A) [M]:
+    # a resistance with no current stated is not known to be that test.
+    check = evaluate(_bonding_job(make_job, "0.120 Ω", test_current=None)).check(
+        "bonding.continuity", "frame")
+    assert check.verdict is Verdict.UNDETERMINED
+    assert "test_current" in (check.message or "")
+
+
+@pytest.mark.parametrize(("current", "verdict"), [
+    ("0.1 A", Verdict.UNDETERMINED),   # below the 0.2 A of IEC 60204-1:2016 18.2.2 [M]
+    ("0.2 A", Verdict.PASS),           # the lower end of the range [M]
+    ("10 A", Verdict.PASS),            # "about 10 A" [M]
+    ("25 A", Verdict.UNDETERMINED),    # above the range as stated [M]
+])
+def test_bonding_test_current_against_iec_60204_1_2016_18_2_2(make_job, evaluate, step,
+                                                             current, verdict):
+    check = evaluate(_bonding_job(make_job, "0.120 Ω", test_current=current)).check(
+        "bonding.continuity", "frame")
+    assert check.verdict is verdict
+    assert "IEC 60204-1:2016 cl. 18.2.2" in next(
+        s.text for s in check.steps if s.label == "test current")
+
+
+def test_bonding_cites_table_9_with_the_2005_edition(make_job, evaluate):
+    check = evaluate(_bonding_job(make_job, "0.120 Ω")).check("bonding.continuity", "frame")
+    # The maximum voltage drops at 10 A are IEC 60204-1:2005 Table 9 [M]; 2016 has none.
+    assert any(s.label.startswith("for comparison: IEC 60204-1:2005 cl. 18.2.2 Table 9")
+               for s in check.steps)
+    assert "18.2.2" in check.source
 
 
 def test_bonding_point_names_are_checked(make_job):

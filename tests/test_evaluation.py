@@ -344,7 +344,7 @@ def test_rise_over_ambient(make_job, evaluate, step, point, reading, rise, verdi
 
 LOCKOUT_ALL_YES = {
     "energy_sources": "yes", "isolation_locked": "yes", "tester_proven_before": "yes",
-    "absence_of_voltage": {point: "0.2 V" for point in
+    "absence_of_voltage": {point: "0 V" for point in
                            ("L1-L2", "L2-L3", "L3-L1", "L1-PE", "L2-PE", "L3-PE")},
     "tester_proven_after": "yes",
 }
@@ -455,3 +455,35 @@ def test_evaluation_is_deterministic(make_job):
     assert first == second
     job = load_job(root)
     assert to_json(evaluate_job(job)) == to_json(evaluate_job(job))
+
+
+# ------------------------------------------------------------------ absence of voltage
+
+
+def _absence_job(make_job, reading, **job):
+    return make_job(job=job or None, machine={"checklists": ["lockout"]},
+                    visit={"readings": {"lockout": {"absence_of_voltage": {"L1-PE": reading}}}})
+
+
+@pytest.mark.parametrize(("reading", "verdict"), [
+    ("0 V", Verdict.PASS),
+    # IEC 60449 band I (≤ 50 V a.c.) [S] is an extra-low-voltage band, not absence [P].
+    ({"value": "24 V", "note": "read on the control transformer"}, Verdict.FAIL),
+    ("0.4 V", Verdict.UNDETERMINED),      # non-zero without its explanation [P]
+    ({"value": "0.4 V", "note": "induced from the parallel feeder"}, Verdict.PASS),
+])
+def test_absence_of_voltage_is_near_zero_not_a_voltage_band(make_job, evaluate, reading,
+                                                            verdict):
+    check = evaluate(_absence_job(make_job, reading)).check("lockout.absence_of_voltage",
+                                                            "L1-PE")
+    assert check.verdict is verdict
+    assert "120.6(7)" in check.source
+
+
+def test_absence_of_voltage_keeps_the_job_override(make_job, evaluate):
+    overrides = [{"item": "lockout.absence_of_voltage", "params": {"limit": "12 V"},
+                  "reason": "site procedure", "source": {"kind": "job", "document": "test"}}]
+    root = _absence_job(make_job, {"value": "8 V", "note": "induced"}, overrides=overrides)
+    check = evaluate(root).check("lockout.absence_of_voltage", "L1-PE")
+    assert check.verdict is Verdict.PASS
+    assert "12 V" in check.limit

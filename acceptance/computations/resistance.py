@@ -20,7 +20,10 @@ Sources
   75 °C, uncoated copper).
 - ASTM B258 (American Wire Gauge: 36 AWG = 0.0050 in, 4/0 = 0.4600 in).
 - IEC 60204-1:2005, cl. 18.2.2 and Table 9 (continuity of the protective
-  bonding circuit, maximum voltage drop at 10 A) [M].
+  bonding circuit, maximum voltage drop at 10 A; the table is in the 2005
+  edition, the 2016 edition replaced it by the expected-value rule) [M].
+- IEC 60204-1:2016, cl. 18.2.2 (continuity test current: at least 0.2 A, up to
+  about 10 A, from a PELV source) [M].
 """
 
 from __future__ import annotations
@@ -42,6 +45,7 @@ __all__ = [
     "CONDUCTOR_CONSTANTS",
     "COPPER_234_5",
     "COPPER_235",
+    "BONDING_TEST_CURRENT_RANGE",
     "BondingDropLimit",
     "BondingResistanceEstimate",
     "ConductorConstant",
@@ -53,6 +57,7 @@ __all__ = [
     "conductor_constant",
     "conductor_resistance",
     "expected_bonding_resistance",
+    "iec_60204_1_bonding_test_current",
     "iec_60204_1_bonding_voltage_drop",
     "iec_60228_resistance",
     "nec_table_8_resistance",
@@ -715,3 +720,65 @@ def iec_60204_1_bonding_voltage_drop(cross_section_mm2: float) -> BondingDropLim
         edition="2005",
         status="M",
     )
+
+
+BONDING_TEST_CURRENT_RANGE = (0.2, 10.0)
+"""Test current of the continuity test, IEC 60204-1:2016 cl. 18.2.2: at least 0.2 A,
+up to about 10 A, from a PELV (or otherwise separated) source [A] [M]."""
+
+
+@dataclass(frozen=True)
+class BondingTestCurrent:
+    """A bonding test current judged against the range the clause gives."""
+
+    test_current: float
+    """[A]"""
+    within_range: bool
+    message: str
+    standard: str = "IEC 60204-1"
+    clause: str = "cl. 18.2.2"
+    edition: str = "2016"
+    status: str = "M"
+
+    def describe(self) -> str:
+        low, high = BONDING_TEST_CURRENT_RANGE
+        return f"{low:g} A ≤ I ≤ {high:g} A ({self.standard}:{self.edition} {self.clause})"
+
+
+def iec_60204_1_bonding_test_current(test_current: float) -> BondingTestCurrent:
+    """Whether a continuity test current is within the range of IEC 60204-1:2016 18.2.2.
+
+    Parameters
+    ----------
+    test_current : float
+        Current the tester drove through the bonding conductor [A].
+
+    Returns
+    -------
+    BondingTestCurrent
+
+    Notes
+    -----
+    The clause asks for a current of at least 0.2 A and up to about 10 A, drawn from
+    a PELV source; below 0.2 A a single strand or a contact film can carry the test
+    and hide a broken conductor. "About 10 A" is read here as at most 10 A: a
+    higher current is outside the range as stated, and the tester's own figure
+    should be checked against the edition in force.
+
+    References
+    ----------
+    IEC 60204-1:2016, cl. 18.2.2 (test 1, continuity of the protective bonding
+    circuit) [M].
+    """
+    current = _positive("test_current", test_current, "A")
+    low, high = BONDING_TEST_CURRENT_RANGE
+    if current < low:
+        message = (f"test current {current:g} A is below the {low:g} A that IEC 60204-1:2016 "
+                   "cl. 18.2.2 asks for; repeat the test with a low-resistance tester that "
+                   "drives at least 0.2 A")
+    elif current > high:
+        message = (f"test current {current:g} A is above the about {high:g} A that "
+                   "IEC 60204-1:2016 cl. 18.2.2 gives; repeat at 0.2 A … 10 A")
+    else:
+        message = f"test current {current:g} A within {low:g} A … {high:g} A"
+    return BondingTestCurrent(current, low <= current <= high, message)

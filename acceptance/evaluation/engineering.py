@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import functools
 
-from ..computations import resistance, temperature_rise
+from ..computations import ComputationError, resistance, temperature_rise
 from ..computations.resistance import ConductorConstant
 from ..computations.temperature_rise import RiseLimit
 
@@ -40,15 +40,30 @@ def rise_by_resistance(cold_resistance: float, hot_resistance: float, cold_tempe
         coolant_temperature_c=ambient_temperature, constant=constant)
 
 
-def rise_limit(thermal_class: str, standard: str) -> RiseLimit:
-    """The rise limit by resistance at 40 °C coolant for a thermal class, by standard."""
+def rise_limit(thermal_class: str, standard: str, kind: str = "rotating_machine",
+               small_or_encapsulated: bool = False,
+               hot_spot_allowance: float | None = None) -> RiseLimit:
+    """The rise limit by resistance at 40 °C coolant, by the kind of winding and standard.
+
+    IEC 60034-1 and NEMA MG 1 cover rotating machines only; a transformer takes
+    IEC 60076-11, a d.c. magnet coil its class less the coolant and its hot-spot
+    allowance."""
+    if kind == "transformer":
+        return temperature_rise.transformer_rise_limit(thermal_class)
+    if kind == "dc_coil":
+        if hot_spot_allowance is None:
+            raise ComputationError(
+                "a d.c. coil is outside IEC 60034-1, which covers rotating machines; give "
+                "the coil's hot_spot_allowance or the manufacturer's rise_limit in machine.yaml")
+        return temperature_rise.coil_rise_limit(thermal_class, hot_spot_allowance)
     if standard == "NEMA MG 1":
         return temperature_rise.nema_mg_1_rise_limit(thermal_class)
-    return temperature_rise.iec_60034_1_rise_limit(thermal_class)
+    return temperature_rise.iec_60034_1_rise_limit(
+        thermal_class, small_or_encapsulated=small_or_encapsulated)
 
 
 def limit_source(limit: RiseLimit) -> str:
-    """E.g. ``class 155 (F), IEC 60034-1:2010 cl. 8.3, Table 7 (resistance method)``."""
+    """E.g. ``class 155 (F), IEC 60034-1:2010 cl. 8.3, Table 7 (resistance method) [S]``."""
     text = (f"class {limit.thermal_class.describe()}, {limit.standard}:{limit.edition} "
-            f"{limit.clause}")
+            f"{limit.clause} [{limit.status}]")
     return f"{text} — {limit.note}" if limit.note else text

@@ -13,6 +13,7 @@ from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
 
 from ..capacitor_codes import tolerance_window
+from ..computations import isolation
 from ..results import Step, Verdict
 from ..rule_specs import REFERENCES, RuleSpec
 from ..tolerance import Tolerance
@@ -167,6 +168,21 @@ def _window(reading: Reading, context: Context, params: dict[str, Any]) -> Outco
     tolerance = Tolerance(lower.dimension, _symbol(reading),
                           lower.unit or _display_unit(reading, context), lower.value, upper.value)
     return _compare(tolerance, reading.value.value)
+
+
+def _absence_of_voltage(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
+    """A reading at an isolated point: zero, or explained in a note and within the limit."""
+    assert isinstance(reading.value, Quantity)
+    default = f"{isolation.ABSENCE_OF_VOLTAGE_DEFAULT_LIMIT:g} V"
+    limit = parse_quantity(params.get("limit", default), Dimension.VOLTAGE)
+    unit = limit.unit or _display_unit(reading, context)
+    tolerance = Tolerance(Dimension.VOLTAGE, "U", unit, None, limit.value)
+    explained = bool(reading.note and reading.note.strip())
+    judged = isolation.assess_absence_of_voltage(reading.value.value, limit.value, explained)
+    steps = (Step("absence of voltage", judged.message),)
+    if judged.dead is None:
+        return Outcome(Verdict.UNDETERMINED, tolerance.describe(), steps, message=judged.message)
+    return _compare(tolerance, reading.value.value, steps)
 
 
 def _relative_to(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
@@ -371,7 +387,10 @@ def _rise_by_resistance(reading: Reading, context: Context, params: dict[str, An
         limit_source = "manufacturer's rise limit for this winding"
     else:
         try:
-            limit = eng.rise_limit(winding.thermal_class, params.get("standard", "IEC 60034-1"))
+            limit = eng.rise_limit(
+                winding.thermal_class, params.get("standard", "IEC 60034-1"), winding.kind,
+                winding.small_or_encapsulated,
+                winding.hot_spot_allowance.value if winding.hot_spot_allowance else None)
         except ValueError as error:
             return Outcome(Verdict.UNDETERMINED, "Δθ ≤ class limit",
                            message=f"{error}; give the manufacturer's rise_limit for the winding")
@@ -392,8 +411,12 @@ def _rise_by_resistance(reading: Reading, context: Context, params: dict[str, An
     # ∂Δθ/∂R₂ = (k + θ₁)/R₁: how a hot-resistance uncertainty moves the rise.
     sensitivity = (constant.temperature_constant + cold.extras["temperature"].value
                    ) / cold.value.value
+    # The checklist cites IEC 60034-1; a coil, a transformer or a manufacturer's figure has
+    # another basis, and the record names that one alone.
+    replaces = winding.rise_limit is not None or winding.kind != "rotating_machine"
     return _compare(tolerance, rise, steps, sensitivity=sensitivity,
-                    compared="temperature rise Δθ", source_note=limit_source)
+                    compared="temperature rise Δθ", source_note=limit_source,
+                    source_replaces=replaces)
 
 
 def _rise_over_ambient(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
@@ -428,6 +451,7 @@ EVALUATORS: dict[str, Evaluate] = {
     "at_most": _bound("max"),
     "at_least": _bound("min"),
     "window": _window,
+    "absence_of_voltage": _absence_of_voltage,
     "relative_to": _relative_to,
     "current_against": _current_against,
     "winding_resistance": _winding_resistance,

@@ -27,6 +27,7 @@ from acceptance.computations.resistance import (
     conductor_constant,
     conductor_resistance,
     expected_bonding_resistance,
+    iec_60204_1_bonding_test_current,
     iec_60204_1_bonding_voltage_drop,
     iec_60228_resistance,
     nec_table_8_resistance,
@@ -421,3 +422,12 @@ def test_table_9_never_allows_more_for_a_larger_conductor(small, large):
     small, large = sorted((small, large))
     assert (iec_60204_1_bonding_voltage_drop(large).max_voltage_drop
             <= iec_60204_1_bonding_voltage_drop(small).max_voltage_drop)
+
+
+# IEC 60204-1:2016 cl. 18.2.2: continuity test current at least 0.2 A, up to about 10 A [M]
+@pytest.mark.parametrize(("current", "within"), [
+    (0.19, False), (0.2, True), (10.0, True), (10.5, False)])
+def test_bonding_test_current_range_of_iec_60204_1_2016(current, within):
+    judged = iec_60204_1_bonding_test_current(current)
+    assert judged.within_range is within
+    assert (judged.edition, judged.clause, judged.status) == ("2016", "cl. 18.2.2", "M")

@@ -21,10 +21,12 @@ from acceptance.computations.resistance import (
 from acceptance.computations.temperature_rise import (
     THERMAL_CLASSES,
     ThermalClass,
+    coil_rise_limit,
     iec_60034_1_rise_limit,
     nema_mg_1_rise_limit,
     temperature_rise_by_resistance,
     thermal_class,
+    transformer_rise_limit,
     winding_temperature_by_resistance,
 )
 
@@ -153,11 +155,9 @@ def test_unknown_thermal_class(designation):
 @pytest.mark.parametrize(
     ("designation", "limit", "status"),
     [
-        ("E", 75.0, "M"),  # IEC 60034-1 Table 7, by resistance (reference values §2) [M]
         ("B", 80.0, "S"),  # IEC 60034-1 Table 7, by resistance (reference values §2) [S]
         ("F", 105.0, "S"),  # IEC 60034-1 Table 7, by resistance (reference values §2) [S]
         ("H", 125.0, "S"),  # IEC 60034-1 Table 7, by resistance (reference values §2) [S]
-        ("A", 60.0, "M"),  # IEC 60034-1 Table 7, by resistance [M]
     ],
 )
 def test_iec_60034_1_limits(designation, limit, status):
@@ -196,8 +196,16 @@ def test_iec_60034_1_coolant_adjustment(coolant, limit):
          "coolant_temperature_c 65 °C is outside 0 … 60 °C; IEC 60034-1 leaves the limit "
          "to agreement there"),
         (lambda: iec_60034_1_rise_limit("N"),
-         "thermal_class 200 (N) has no encoded IEC 60034-1 rise limit; encoded: 105 (A), "
-         "120 (E), 130 (B), 155 (F), 180 (H)"),
+         "thermal_class 200 (N) is not in IEC 60034-1:2010 Table 7, which holds 130 (B), "
+         "155 (F) and 180 (H) only"),
+        # IEC 60034-1:2010 Table 7 has no class 105 (A) or 120 (E) column [M]: the older
+        # classes need a source that gives them (the manufacturer's limit).
+        (lambda: iec_60034_1_rise_limit("A"),
+         "thermal_class 105 (A) is not in IEC 60034-1:2010 Table 7, which holds 130 (B), "
+         "155 (F) and 180 (H) only"),
+        (lambda: iec_60034_1_rise_limit("E"),
+         "thermal_class 120 (E) is not in IEC 60034-1:2010 Table 7, which holds 130 (B), "
+         "155 (F) and 180 (H) only"),
         (lambda: nema_mg_1_rise_limit("H", 1.15),
          "thermal_class 180 (H) has no NEMA MG 1 rise limit for service factor 1.15; "
          "tabulated classes: A, B, F"),
@@ -242,3 +250,30 @@ def test_service_factor_row_is_ten_kelvin_higher(letter):
 def test_warmer_coolant_never_allows_more_rise(first, second):
     low, high = sorted((first, second))
     assert iec_60034_1_rise_limit("B", high).limit <= iec_60034_1_rise_limit("B", low).limit
+
+
+@pytest.mark.parametrize(("designation", "limit"), [
+    # IEC 60034-1:2010 Table 7 items 1d/1e (below 600 W; IC 40 or encapsulated): 5 K above
+    # items 1a–1c [M]
+    ("B", 85.0), ("F", 110.0), ("H", 130.0)])
+def test_iec_60034_1_small_or_encapsulated_allowance(designation, limit):
+    result = iec_60034_1_rise_limit(designation, small_or_encapsulated=True)
+    assert result.limit == limit
+    assert "items 1d/1e" in result.clause and result.edition == "2010"
+
+
+@pytest.mark.parametrize(("designation", "limit"), [
+    # IEC 60076-11:2018 dry-type transformers, average winding rise by class [M]
+    ("A", 60.0), ("E", 75.0), ("B", 80.0), ("F", 100.0), ("H", 125.0), (200, 135.0),
+    (220, 150.0)])
+def test_transformer_limits_are_not_those_of_rotating_machines(designation, limit):
+    result = transformer_rise_limit(designation)
+    assert (result.limit, result.standard) == (limit, "IEC 60076-11")
+
+
+def test_dc_coil_limit_from_class_and_hot_spot_allowance():
+    # IEC 60085:2007 Table 1: class 155 (F) is 155 °C [S]; less the 40 °C coolant and a
+    # 15 K hot-spot allowance [P]: 100 K, exact.
+    result = coil_rise_limit("F", 15.0)
+    assert result.limit == 100.0
+    assert (result.standard, result.status) == ("IEC 60085", "P")
