@@ -350,6 +350,10 @@ class CapacitorSpec(_Strict):
     working_voltage: Voltage | None = Field(None, description="peak voltage in service")
     bleeder_resistance: Resistance | None = Field(
         None, description="discharge resistor across the capacitor, from the drawings")
+    circuit: Literal["ac", "dc"] = Field(
+        "ac", description="'ac' for a run or power-factor capacitor on the supply (the record "
+                          "shows its reactance and expected current); 'dc' for a filter "
+                          "capacitor after a rectifier")
 
 
 class ProtectiveDevice(_Strict):

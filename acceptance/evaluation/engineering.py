@@ -10,12 +10,17 @@ from __future__ import annotations
 
 import functools
 
-from ..computations import resistance, temperature_rise
+from ..computations import capacitors, resistance, temperature_rise
 from ..computations.resistance import ConductorConstant
 from ..computations.temperature_rise import RiseLimit
 
-__all__ = ["ConductorConstant", "RiseLimit", "limit_source", "resistance_at_temperature",
-           "rise_by_resistance", "rise_limit", "temperature_constant"]
+__all__ = ["ConductorConstant", "RiseLimit", "capacitive_reactance", "limit_source",
+           "resistance_at_temperature", "rise_by_resistance", "rise_limit", "temperature_constant"]
+
+
+def capacitive_reactance(capacitance: float, frequency: float) -> float:
+    """Xc = 1/(2π f C), by :func:`capacitors.capacitive_reactance`."""
+    return capacitors.capacitive_reactance(capacitance, frequency)
 
 
 @functools.lru_cache(maxsize=64)

@@ -8,6 +8,7 @@ phrase and every intermediate value. Rules call the pure functions in
 
 from __future__ import annotations
 
+import math
 from collections.abc import Callable
 from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
@@ -341,8 +342,37 @@ def _capacitance(reading: Reading, context: Context, params: dict[str, Any]) -> 
         Step("tolerance", f"{description}: {lower_pct:+g} % / {upper_pct:+g} %"),
         Step("deviation", _pct(100 * (reading.value.value / nominal.value - 1)),
              100 * (reading.value.value / nominal.value - 1), "%"),
+        *_capacitor_field_check(capacitor, reading.value.value, context),
     )
     return _compare(tolerance, reading.value.value, steps)
+
+
+def _capacitor_field_check(capacitor: Any, capacitance: float, context: Context) -> list[Step]:
+    """The a.c. field check of a run capacitor: its reactance at the supply frequency and the
+    current it should draw at its working voltage, from the measured capacitance.
+
+    The working voltage is recorded as a peak (it also gives the stored energy); on a
+    sinusoidal supply the r.m.s. voltage across the capacitor is Û/√2. A clamp reading of the
+    capacitor's current far from this figure points to a failing capacitor or a wrong
+    working voltage [P] (reference values §13).
+    """
+    frequency = context.nameplate.frequency
+    if capacitor.circuit != "ac" or frequency is None or capacitance <= 0:
+        return []
+    f = frequency.value
+    reactance = eng.capacitive_reactance(capacitance, f)
+    steps = [Step("Xc at the supply frequency", format_value(reactance, Dimension.RESISTANCE),
+                  reactance, "Ω",
+                  formula=f"Xc = 1/(2π·f·C), f = {format_value(f, Dimension.FREQUENCY)}, "
+                          f"C as measured")]
+    if capacitor.working_voltage is not None:
+        volts = capacitor.working_voltage.value / math.sqrt(2)
+        current = volts / reactance
+        steps.append(Step("expected current", format_value(current, Dimension.CURRENT), current,
+                          "A", formula=f"I = U/Xc, U = Û/√2 = "
+                                       f"{format_value(volts, Dimension.VOLTAGE)} "
+                                       f"(working voltage, sinusoidal supply)"))
+    return steps
 
 
 # ------------------------------------------------------------------ temperature
