@@ -254,6 +254,8 @@ class ChangeClass(str, Enum):
     WATCH = "watch"
     ACT = "act"
     NOT_COMPARABLE = "not comparable"
+    # Only for a part replaced: the value moved back inside its limit or toward its nominal.
+    REPAIRED = "repaired"
 
     @property
     def slug(self) -> str:
@@ -297,6 +299,7 @@ class PartReplacement:
     before: str | None = None  # "as found" or the id of the visit before
     behaviour: tuple[Change, ...] = ()
     steady: bool = False  # every value of behaviour is steady: the swap changed nothing seen
+    repaired: bool = False  # some value was restored and none is left to act on
 
 
 @dataclass(frozen=True)
@@ -576,6 +579,7 @@ def part_to_json(part: PartReplacement) -> Json:
         "part": part.part, "reason": part.reason, "old": part.old, "new": part.new,
         "element": part.element, "items": list(part.items), "before": part.before,
         "behaviour": [change_to_json(c) for c in part.behaviour],
+        "repaired": part.repaired,
     }
 
 

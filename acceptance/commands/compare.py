@@ -24,7 +24,7 @@ from ..results import ChangeClass, JobResult, MachineResult
 from ..wording import counted
 
 _MARK = {ChangeClass.STEADY: "=", ChangeClass.WATCH: "!", ChangeClass.ACT: "!!",
-         ChangeClass.NOT_COMPARABLE: "?"}
+         ChangeClass.NOT_COMPARABLE: "?", ChangeClass.REPAIRED: "+"}
 
 
 def register(parser: argparse.ArgumentParser) -> None:
