@@ -260,6 +260,26 @@ def _current_against(reading: Reading, context: Context, params: dict[str, Any])
             Verdict.UNDETERMINED, tolerance.describe(), tuple(steps),
             message=f"{_article(basis.phrase)} {basis.phrase} reading cannot be compared with "
                     f"{_article(needed.phrase)} {needed.phrase} {label}; {advice}")
+    nameplate = context.nameplate
+    welder = (eng.welder_multiplier(nameplate.load_kind, nameplate.duty_cycle.value
+                                    if nameplate.duty_cycle is not None else None)
+              if reference_name == "conductor" else None)
+    if welder is not None:
+        # NEC 630.11(A): a welder's supply conductor is sized on the equivalent current, not
+        # on the current while welding; judging it on the raw current would fail the same
+        # cable the duty check passes.
+        value = reading.value.value * welder.multiplier
+        steps += [Step("NEC multiplier", f"{welder.multiplier:.2f} ({welder.standard} "
+                       f"{welder.clause}, row {welder.table_row})", welder.multiplier, "1"),
+                  Step("equivalent current I_eq", format_value(value, Dimension.CURRENT, "A"),
+                       value, "A", formula="I_eq = I × multiplier (NEC 630.11(A))"),
+                  Step("loading", f"{100 * value / limit:.1f} % of the limit",
+                       100 * value / limit, "%")]
+        return _compare(Tolerance(Dimension.CURRENT, "I_eq", reference.unit or "A", None, limit),
+                        value, steps, sensitivity=welder.multiplier,
+                        compared="equivalent current I_eq of NEC 630.11(A)",
+                        source_note="a welder's supply conductor: NEC 630.11(A), "
+                                    "Table 630.11(A)")
     steps.append(Step("loading", f"{100 * reading.value.value / limit:.1f} % of the limit",
                       100 * reading.value.value / limit, "%"))
     return _compare(tolerance, reading.value.value, steps)
