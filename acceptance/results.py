@@ -164,6 +164,13 @@ class CheckResult:
     compared_unit: str = ""
     limit_lower: float | None = None
     limit_upper: float | None = None
+    # The decision rule's guard band w and the acceptance limits (each tolerance limit moved
+    # inward by w; equal to the tolerance limits under simple acceptance), in base units.
+    guard_band: float | None = None
+    acceptance_lower: float | None = None
+    acceptance_upper: float | None = None
+    acceptance: str | None = None  # the acceptance limits as a phrase
+    conformance_basis: str | None = None  # the distribution behind ``conformance``
 
 
 @dataclass(frozen=True)
@@ -505,6 +512,9 @@ def check_to_json(check: CheckResult) -> Json:
         "conformance": check.conformance, "compared_value": check.compared_value,
         "compared_unit": check.compared_unit, "limit_lower": check.limit_lower,
         "limit_upper": check.limit_upper,
+        "guard_band": check.guard_band, "acceptance_lower": check.acceptance_lower,
+        "acceptance_upper": check.acceptance_upper, "acceptance": check.acceptance,
+        "conformance_basis": check.conformance_basis,
     }
 
 

@@ -8,6 +8,7 @@ example of reference values §11 (230.4 V, ±(0.5 % of reading + 2 digits), 0.1 
 from __future__ import annotations
 
 import copy
+import math
 
 import pytest
 
@@ -152,3 +153,40 @@ def test_capture_outside_the_machine_folder_is_refused(make_job):
     with pytest.raises(InputError) as caught:
         load_job(root)
     assert "'../../../etc/passwd' leaves the machine folder" in str(caught.value)
+
+
+def test_guarded_acceptance_records_its_guard_band_and_acceptance_limits(make_job, evaluate):
+    """results.json carries the acceptance limits beside the tolerance limits, and w."""
+    from acceptance.results import check_to_json
+    root = make_job(job={"decision_rule": "guarded acceptance"},
+                    instruments=_instruments(**{"dmm-1": {"functions": DMM_ACCURACY}}),
+                    machine=SINGLE_PHASE, visit=_supply("207.9 V"))
+    check = evaluate(root).check("supply.voltage", "L-N")
+    data = check_to_json(check)
+    # ILAC-G8:09/2019 cl. 4.2.2 [S]: under guarded acceptance w = U and the acceptance limit
+    # is the tolerance limit moved inward by w, A_L = T_L + w. U at 207.9 V: a = 0.5 % ×
+    # 207.9 V + 2 × 0.1 V = 1.2395 V, u = a/√3 combined with the resolution's 0.1/√12 V,
+    # U = 2u (reference values §11) [S].
+    u_spec, u_resolution = 1.2395 / math.sqrt(3), 0.1 / math.sqrt(12)
+    expected_u = 2 * math.sqrt(u_spec**2 + u_resolution**2)
+    assert data["guard_band"] == pytest.approx(expected_u, rel=1e-3)
+    assert data["acceptance_lower"] == pytest.approx(data["limit_lower"] + data["guard_band"],
+                                                     rel=1e-12)
+    assert data["acceptance_upper"] == pytest.approx(data["limit_upper"] - data["guard_band"],
+                                                     rel=1e-12)
+    # JCGM 106:2012 cl. 9.2 [M]: the probability assumes a normal distribution with the
+    # standard uncertainty u = U/2, and the record and the JSON say so in one phrase.
+    assert data["conformance"] is not None
+    assert data["conformance_basis"].startswith("normal distribution with the standard "
+                                                "uncertainty u = 0.7")
+    assert "JCGM 106:2012" in data["conformance_basis"]
+
+
+def test_simple_acceptance_has_no_guard_band(make_job, evaluate):
+    root = make_job(job={"decision_rule": "simple acceptance"},
+                    instruments=_instruments(**{"dmm-1": {"functions": DMM_ACCURACY}}),
+                    machine=SINGLE_PHASE, visit=_supply("230.0 V"))
+    check = evaluate(root).check("supply.voltage", "L-N")
+    assert check.guard_band == 0.0
+    assert (check.acceptance_lower, check.acceptance_upper) == (check.limit_lower,
+                                                                check.limit_upper)

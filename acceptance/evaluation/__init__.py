@@ -154,7 +154,10 @@ def _evaluate_element(item: ChecklistItem, checklist: LoadedChecklist, element: 
             decision=assessment.decision, conformance=assessment.conformance,
             compared_value=compared_value, compared_unit=compared_unit,
             limit_lower=tolerance.lower if tolerance else None,
-            limit_upper=tolerance.upper if tolerance else None))
+            limit_upper=tolerance.upper if tolerance else None,
+            guard_band=assessment.guard_band, acceptance_lower=assessment.acceptance_lower,
+            acceptance_upper=assessment.acceptance_upper, acceptance=assessment.acceptance,
+            conformance_basis=assessment.conformance_basis))
     verdict = worst([c.verdict for c in checks], empty=Verdict.RECORDED)
     value = reading.value
     if isinstance(value, Quantity):

@@ -19,6 +19,7 @@ from ..computations import ComputationError
 from ..computations import uncertainty as unc
 from ..model import AccuracyEntry, ChecklistItem, Instrument
 from ..results import Verdict
+from ..tolerance import Tolerance
 from ..units import Dimension, Quantity, format_value, parse_quantity
 from .rules import Outcome
 
@@ -49,6 +50,21 @@ class Assessment:
     decision: str | None
     conformance: float | None
     message: str | None
+    # The decision rule's guard band w and the acceptance limits (each tolerance limit moved
+    # inward by w, ILAC-G8:09/2019 cl. 4.2.2); w = 0 under simple acceptance.
+    guard_band: float | None = None
+    acceptance_lower: float | None = None
+    acceptance_upper: float | None = None
+    acceptance: str | None = None  # the acceptance limits as a phrase, e.g. "U ≤ 252.2 V"
+    conformance_basis: str | None = None  # the distribution the probability assumes
+
+
+# JCGM 106:2012 cl. 9.2: with a normal PDF for the measurand, the probability of conformity
+# is computed from the best estimate and its standard uncertainty u (not U = k·u) [M].
+def conformance_basis(standard: float, dimension: Dimension, unit: str) -> str:
+    return (f"normal distribution with the standard uncertainty u = "
+            f"{format_value(standard, dimension, unit, 2)} about the compared value, "
+            f"JCGM 106:2012 cl. 9.2 [M]")
 
 
 def _entry_for(instrument: Instrument, reading: Quantity,
@@ -123,6 +139,8 @@ def assess(outcome: Outcome, uncertainty: ReadingUncertainty | str, rule_name: s
     verdict = outcome.verdict
     decision = None
     conformance = None
+    basis = None
+    guard: tuple[float, float | None, float | None, str] | None = None
     messages: list[str] = []
     rule = unc.DecisionRule(rule_name)
     tolerance = outcome.tolerance
@@ -139,10 +157,16 @@ def assess(outcome: Outcome, uncertainty: ReadingUncertainty | str, rule_name: s
                         f"{format_value(expanded, tolerance.dimension, tolerance.unit, 2)}"
                         + (" (propagated to the compared value)"
                            if abs(outcome.sensitivity - 1.0) > 1e-12 else ""))
+            accepted = Tolerance(tolerance.dimension, tolerance.symbol, tolerance.unit,
+                                 result.acceptance_lower, result.acceptance_upper,
+                                 tolerance.digits)
+            guard = (result.guard_band, result.acceptance_lower, result.acceptance_upper,
+                     accepted.describe())
             distance = tolerance.distance_outside(outcome.compared_value)
             if standard > 0 and abs(distance) <= 2 * expanded:
                 conformance = unc.conformance_probability(
                     outcome.compared_value, standard, tolerance.lower, tolerance.upper)
+                basis = conformance_basis(standard, tolerance.dimension, tolerance.unit)
         else:
             decision = f"{rule.value} could not account for the instrument: {uncertainty}"
             if rule is unc.DecisionRule.GUARDED and verdict is Verdict.PASS:
@@ -158,7 +182,12 @@ def assess(outcome: Outcome, uncertainty: ReadingUncertainty | str, rule_name: s
             verdict = Verdict.UNDETERMINED
             messages.append(f"{instrument.id}: {state.phrase} on the visit date "
                             f"({visit_date.isoformat()}); repeat with a calibrated instrument")
-    return Assessment(verdict, decision, conformance, "; ".join(messages) or None)
+    if guard is None:
+        return Assessment(verdict, decision, conformance, "; ".join(messages) or None,
+                          conformance_basis=basis)
+    return Assessment(verdict, decision, conformance, "; ".join(messages) or None,
+                      guard_band=guard[0], acceptance_lower=guard[1],
+                      acceptance_upper=guard[2], acceptance=guard[3], conformance_basis=basis)
 
 
 def capture_findings(instrument: Instrument | None,
