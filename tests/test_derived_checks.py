@@ -162,6 +162,12 @@ def test_cord_voltage_drop_at_70_c(make_job, evaluate, step):
     assert step(check, "of nominal") == pytest.approx(0.797, rel=5e-4)
     # IEC 60364-5-52 Annex G: 5 % for other loads from a public LV supply [S].
     assert check.verdict is Verdict.PASS
+    # The method is named as used: IEC 60228 resistance at the conductor temperature with
+    # the reactance neglected, not Annex G's own ρ₁ and λ; the limit's clause and edition.
+    assert "IEC 60364-5-52:2009, Annex G, Table G.52.1 (the limit)" in check.source
+    assert "method: IEC 60228 resistance at 70 °C, reactance neglected" in check.source
+    assert "IEC 60204-1:2016 cl. 12.5" in check.source
+    assert step(check, "reactance X") == 0.0
 
 
 def test_cord_voltage_drop_at_20_c_by_job_override(make_job, evaluate, step):

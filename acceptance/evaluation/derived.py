@@ -333,6 +333,8 @@ def _cable_voltage_drop(reading: Reading, context: Context, params: dict[str, An
         Step("power factor cos φ", f"{power_factor:g}" + ("" if cable.power_factor else
                                                           " (resistive: none given)"),
              power_factor, "1"),
+        Step("reactance X", "neglected (0 Ω/m): the drop is resistive only, not IEC 60364-5-52 "
+             "Annex G's λ = 0.08 mΩ/m", 0.0, "Ω/m"),
         Step("voltage drop ΔU", _fmt(drop.voltage_drop, Dimension.VOLTAGE, "V"),
              drop.voltage_drop, "V", formula=drop.model),
         Step("of nominal", f"{percent:.3f} % of {nameplate.rated_voltage.format()}", percent,
@@ -341,8 +343,8 @@ def _cable_voltage_drop(reading: Reading, context: Context, params: dict[str, An
     return _compare(tolerance, percent, steps,
                     sensitivity=sensitivity_scale * percent / reading.value.value,
                     compared="voltage drop ΔU / U_n",
-                    source_note="recommended (informative); reactance neglected; "
-                                f"conductor at {conductor_temperature:g} °C")
+                    source_note="recommended (informative); method: IEC 60228 resistance at "
+                                f"{conductor_temperature:g} °C, reactance neglected")
 
 
 def _source_impedance(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
