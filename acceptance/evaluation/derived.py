@@ -128,9 +128,12 @@ def _voltage_unbalance(reading: Reading, context: Context, params: dict[str, Any
         Step("unbalance, sequence definition u₂", f"{sequence_pct:.3f} %", sequence_pct, "%",
              formula="β = ΣU⁴/(ΣU²)², u₂ = √((1 − √(3 − 6β)) / (1 + √(3 − 6β)))"),
         Step("NEMA derating factor",
-             f"{derating.factor:.2f} ({derating.standard} {derating.clause})"
+             (f"{derating.factor:.2f} ({derating.standard} {derating.clause}"
+              + ("; " + derating.note if derating.note.startswith("no derating") else "")
+              + ")")
              if derating.factor is not None else derating.note,
-             derating.factor, "1", formula="read off the curve at the NEMA unbalance"),
+             derating.factor, "1", formula="read off the curve at the NEMA unbalance; 1.00 "
+                                           "up to 1 % (NEMA MG 1-2016 12.45)"),
     ]
     # How far the compared value moves per volt of one reading, combined over the three
     # readings as if independent (GUM 5.1.2): ∂u₂/∂Uᵢ by central differences.
