@@ -345,6 +345,8 @@ def _cable_voltage_drop(reading: Reading, context: Context, params: dict[str, An
     )
     return _compare(tolerance, percent, steps,
                     sensitivity=sensitivity_scale * percent / reading.value.value,
+                    capture_sensitivity=(percent / current if sensitivity_scale == 0.0
+                                         else None),
                     compared="voltage drop ΔU / U_n",
                     source_note="recommended (informative); method: IEC 60228 resistance at "
                                 f"{conductor_temperature:g} °C, reactance neglected")

@@ -13,7 +13,7 @@ from __future__ import annotations
 import datetime as _dt
 import functools
 from dataclasses import dataclass
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 from ..computations import ComputationError
 from ..computations import uncertainty as unc
@@ -130,6 +130,46 @@ def reading_uncertainty(instrument: Instrument | None, reading: Quantity,
               + (f", range {full_scale.format()}" if full_scale else ""))
     return ReadingUncertainty(expanded, budget.combined_standard_uncertainty * factor,
                               coverage_factor, phrase)
+
+
+def capture_uncertainty(instruments: dict[str, Instrument], setup: Any, channel: str | None,
+                        value: float, dimension: Dimension,
+                        coverage_factor: float) -> ReadingUncertainty | str:
+    """The uncertainty of a value taken from a capture's channel, from the register.
+
+    The scope's accuracy applies to the voltage at its input (the value over the channel's
+    scaling factor) and is scaled back; the probe's ratio or sensitivity accuracy applies to
+    the value itself. Both standard uncertainties are combined in quadrature (JCGM 100:2008
+    5.1.2, uncorrelated inputs) [S] and expanded with the job's coverage factor.
+    """
+    if setup is None or setup.scope is None:
+        return ("the capture names no scope ('instrument:' under capture), so its "
+                "uncertainty is not known")
+    if channel is None or channel not in setup.factors:
+        return "the capture's channel has no scaling"
+    scope = instruments[setup.scope]
+    factor = setup.factors[channel]
+    at_input = reading_uncertainty(scope, Quantity(value / factor, Dimension.VOLTAGE), None,
+                                   coverage_factor)
+    if isinstance(at_input, str):
+        return f"{setup.scope}: {at_input} (volts at the scope's input)"
+    standard = at_input.standard * abs(factor)
+    parts = [f"{setup.scope} {at_input.phrase.split(', from ', 1)[-1]}"]
+    probe_id = setup.probes.get(channel)
+    if probe_id is not None:
+        by_probe = reading_uncertainty(instruments[probe_id], Quantity(value, dimension), None,
+                                       coverage_factor)
+        if isinstance(by_probe, str):
+            return f"{probe_id}: {by_probe}"
+        standard = (standard**2 + by_probe.standard**2) ** 0.5
+        parts.append(f"{probe_id} {by_probe.phrase.split(', from ', 1)[-1]}")
+    else:
+        parts.append(f"no probe named for {channel}: its accuracy is not included")
+    expanded = coverage_factor * standard
+    unit = {Dimension.CURRENT: "A", Dimension.VOLTAGE: "V"}.get(dimension)
+    phrase = (f"U = {format_value(expanded, dimension, unit, 2)} (k = {coverage_factor:g}) "
+              f"of the capture's {channel}, from " + " and ".join(parts))
+    return ReadingUncertainty(expanded, standard, coverage_factor, phrase)
 
 
 def assess(outcome: Outcome, uncertainty: ReadingUncertainty | str, rule_name: str,

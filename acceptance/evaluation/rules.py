@@ -82,6 +82,9 @@ class Outcome:
     tolerance: Tolerance | None = None
     compared_value: float | None = None
     sensitivity: float = 1.0
+    # A value taken from an attached capture's current channel: ∂compared/∂captured value,
+    # so the scope's and probe's uncertainty is propagated instead of the reading's.
+    capture_sensitivity: float | None = None
 
 
 def _compare(tolerance: Tolerance, value: float, steps: tuple[Step, ...] | list[Step] = (),
@@ -247,7 +250,7 @@ def _current_against(reading: Reading, context: Context, params: dict[str, Any])
         steps.append(Step("loading", f"{100 * value / limit:.1f} % of the limit",
                           100 * value / limit, "%"))
         return _compare(tolerance, value, steps, compared=f"{label_value} from the capture",
-                        sensitivity=0.0)
+                        sensitivity=0.0, capture_sensitivity=1.0)
     if basis is None:
         return Outcome(Verdict.UNDETERMINED, tolerance.describe(), tuple(steps),
                        message="the reading's basis is unknown; name the instrument or write "
