@@ -45,6 +45,8 @@ def _parser() -> argparse.ArgumentParser:
 # An error in the tool itself, not in the input: distinct from 1 (a visit did not pass),
 # 2 (input problems) and 3 (a build could not be completed), so scripts can tell them apart.
 INTERNAL_ERROR_EXIT = 4
+# The reader of stdout went away: 128 + SIGPIPE, what a shell reports for a command ended so.
+BROKEN_PIPE_EXIT = 141
 
 
 def main(argv: Sequence[str] | None = None) -> int:
@@ -74,6 +76,12 @@ def main(argv: Sequence[str] | None = None) -> int:
     except KeyboardInterrupt:
         print("interrupted; nothing was replaced", file=sys.stderr)
         return 130
+    except BrokenPipeError:
+        # Whoever read the output closed it (`acceptance compare JOB --json | head`): end
+        # quietly, as a shell command ends on SIGPIPE. stdout is pointed at /dev/null so that
+        # the interpreter's last flush of the unwritten rest cannot fail again.
+        _silence_stdout()
+        return BROKEN_PIPE_EXIT
     except Exception as error:
         # A fault of the tool, whatever the input: say so plainly and ask for a report; the
         # traceback is for whoever fixes it (--debug), not for the person at the machine.
@@ -96,6 +104,15 @@ def _run(argv: list[str]) -> int:
     module.register(parser)
     args = parser.parse_args(argv[1:])
     return int(module.run(args))
+
+
+def _silence_stdout() -> None:
+    try:
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+        os.close(devnull)
+    except (OSError, ValueError):  # stdout without a file descriptor (tests capture it)
+        pass
 
 
 def _command_line(argv: list[str]) -> str:

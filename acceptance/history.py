@@ -430,7 +430,7 @@ class VisitComparison:
     @property
     def counts(self) -> dict[str, int]:
         return {c.value: sum(1 for ch in self.changes if ch.classification is c)
-                for c in ChangeClass}
+                for c in ChangeClass if c is not ChangeClass.REPAIRED}
 
 
 def _visit(machine: MachineResult, visit: VisitResult | str) -> VisitResult:
@@ -498,13 +498,68 @@ def part_behaviour(machine_result: MachineResult, visit: VisitResult | str,
             # An item measured on the part's own element shows that element; an item of the
             # whole machine (a line current behind a new contactor) shows every element.
             own = [c for c in changes if c.element == part.element]
-            # The cause of this change is known (the swap): no suggestion of another.
-            behaviour.extend(replace(c, note=None) for c in (own or changes))
+            # The cause of this change is known (the swap): no suggestion of another. Its
+            # class says whether the swap repaired the part, not only how far it moved.
+            behaviour.extend(_judged_repair(replace(c, note=None), later)
+                             for c in (own or changes))
             before_label = "as found" if re_measured else before_visit.id
         found.append(replace(part, before=before_label, behaviour=tuple(behaviour),
                              steady=all(c.classification is ChangeClass.STEADY
-                                        for c in behaviour)))
+                                        for c in behaviour),
+                             repaired=any(c.classification is ChangeClass.REPAIRED
+                                          for c in behaviour)
+                             and not any(c.classification is ChangeClass.ACT
+                                         for c in behaviour)))
     return tuple(found)
+
+
+def repair_class(before: float, after: float, lower: float | None, upper: float | None,
+                 nominal: float | None, by_size: ChangeClass) -> tuple[ChangeClass, str | None]:
+    """Class a value before and after a part was replaced by the direction of the repair.
+
+    A value brought back inside its limit, or moved toward its nominal while inside, is a
+    repair that worked (*repaired*), however large the step; a value left outside its limit
+    is a change to *act* on; otherwise the change keeps its class by size (``by_size``). With
+    no nominal, the middle of a two-sided limit stands for it. Returns the class and why.
+    """
+    def inside(value: float) -> bool:
+        return (lower is None or value >= lower) and (upper is None or value <= upper)
+
+    if nominal is None and lower is not None and upper is not None:
+        nominal = (lower + upper) / 2
+    if not inside(after):
+        return ChangeClass.ACT, "still outside its limit after the swap"
+    if not inside(before):
+        return ChangeClass.REPAIRED, "restored: outside its limit before the swap, inside after"
+    if nominal is not None and abs(after - nominal) < abs(before - nominal):
+        return ChangeClass.REPAIRED, "restored toward its nominal value, inside its limit"
+    return by_size, None
+
+
+def _judged_repair(change: Change, visit: VisitResult) -> Change:
+    if (change.baseline_value is None or change.value is None
+            or change.classification is ChangeClass.NOT_COMPARABLE):
+        return change
+    found = effective_element(visit, change.item, change.element)
+    if found is None:
+        return change
+    element = found[1]
+    for check in element.checks:
+        if check.limit_lower is None and check.limit_upper is None:
+            continue
+        if (check.compared_unit or element.unit) != change.unit:
+            continue
+        nominal = next((s.value for s in check.steps if s.label == "nominal"
+                        and s.value is not None), None)
+        classification, why = repair_class(change.baseline_value, change.value,
+                                           check.limit_lower, check.limit_upper, nominal,
+                                           change.classification)
+        if why is None:
+            return change
+        return replace(change, classification=classification,
+                       note=f"{why} ({check.limit}); judged by the direction of the repair, "
+                            f"not by the size of the change")
+    return change
 
 
 # ------------------------------------------------------------------ trends

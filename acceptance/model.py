@@ -362,6 +362,10 @@ class CapacitorSpec(_Strict):
     working_voltage: Voltage | None = Field(None, description="peak voltage in service")
     bleeder_resistance: Resistance | None = Field(
         None, description="discharge resistor across the capacitor, from the drawings")
+    circuit: Literal["ac", "dc"] = Field(
+        "ac", description="'ac' for a run or power-factor capacitor on the supply (the record "
+                          "shows its reactance and expected current); 'dc' for a filter "
+                          "capacitor after a rectifier")
 
 
 class ProtectiveDevice(_Strict):
@@ -411,6 +415,13 @@ class Nameplate(_Strict):
     rated_current_basis: Literal["rms", "average", "dc"] = "rms"
     rated_power: Power | None = None
     duty_cycle: Ratio | None = None
+    load_kind: Literal["motor", "arc welder", "motor-generator arc welder", "other"] | None = (
+        Field(None, description="what the supply feeds: chooses the intermittent-duty rule "
+                                "(NEC 630.11(A) for welders, 430.22(E) for motors)"))
+    duty_class: Literal["short-time", "intermittent", "periodic", "varying"] | None = Field(
+        None, description="a motor's duty service class (NEC Table 430.22(E))")
+    time_rating: Literal["5 min", "15 min", "30 min", "60 min", "continuous"] | None = Field(
+        None, description="a motor's time rating on its nameplate (NEC Table 430.22(E))")
     windings: list[WindingSpec] = Field(default_factory=list)
     capacitors: list[CapacitorSpec] = Field(default_factory=list)
     protective_device: ProtectiveDevice | None = None

@@ -60,6 +60,13 @@ class CheckResult:
     compared_unit: str = ""
     limit_lower: float | None = None
     limit_upper: float | None = None
+    # The decision rule's guard band w and the acceptance limits (each tolerance limit moved
+    # inward by w; equal to the tolerance limits under simple acceptance), in base units.
+    guard_band: float | None = None
+    acceptance_lower: float | None = None
+    acceptance_upper: float | None = None
+    acceptance: str | None = None  # the acceptance limits as a phrase
+    conformance_basis: str | None = None  # the distribution behind ``conformance``
 
 
 @dataclass(frozen=True)
@@ -180,6 +187,7 @@ class PartReplacement:
     before: str | None = None  # "as found" or the id of the visit before
     behaviour: tuple[Change, ...] = ()
     steady: bool = False  # every value of behaviour is steady: the swap changed nothing seen
+    repaired: bool = False  # some value was restored and none is left to act on
 
 
 @dataclass(frozen=True)
@@ -386,6 +394,9 @@ def check_to_json(check: CheckResult) -> Json:
         "conformance": check.conformance, "compared_value": check.compared_value,
         "compared_unit": check.compared_unit, "limit_lower": check.limit_lower,
         "limit_upper": check.limit_upper,
+        "guard_band": check.guard_band, "acceptance_lower": check.acceptance_lower,
+        "acceptance_upper": check.acceptance_upper, "acceptance": check.acceptance,
+        "conformance_basis": check.conformance_basis,
     }
 
 
@@ -460,6 +471,7 @@ def part_to_json(part: PartReplacement) -> Json:
         "part": part.part, "reason": part.reason, "old": part.old, "new": part.new,
         "element": part.element, "items": list(part.items), "before": part.before,
         "behaviour": [change_to_json(c) for c in part.behaviour],
+        "repaired": part.repaired,
     }
 
 

@@ -124,6 +124,8 @@ class ChangeClass(str, Enum):
     WATCH = "watch"
     ACT = "act"
     NOT_COMPARABLE = "not comparable"
+    # Only for a part replaced: the value moved back inside its limit or toward its nominal.
+    REPAIRED = "repaired"
 
     @property
     def slug(self) -> str:
@@ -144,4 +146,5 @@ _CHANGE_MARKS: dict[ChangeClass, str] = {
     ChangeClass.WATCH: "△",
     ChangeClass.ACT: "▲",
     ChangeClass.NOT_COMPARABLE: "?",
+    ChangeClass.REPAIRED: "+",
 }

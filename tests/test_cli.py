@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import json
+import os
 import subprocess
 import sys
 from pathlib import Path
@@ -30,7 +31,7 @@ def test_check_exits_0_when_every_visit_passes(make_job, capsys):
     assert cli.main(["check", str(passing_job(make_job))]) == 0
     out = capsys.readouterr().out
     assert "v1 (commissioning, 2026-03-10): PASS" in out
-    assert out.rstrip().endswith("1 visits: 1 pass")
+    assert out.rstrip().endswith("1 visit: 1 pass")
 
 
 @pytest.mark.parametrize(
@@ -271,3 +272,43 @@ def test_debug_shows_the_traceback_of_an_internal_error(make_job, monkeypatch, c
 def test_debug_changes_nothing_when_nothing_fails(make_job, capsys):
     assert cli.main(["--debug", "check", str(passing_job(make_job))]) == 0
     assert capsys.readouterr().err == ""
+
+
+# Bugs found by trying the tool (issue "every verdict on its basis", item 12).
+
+def test_a_closed_stdout_ends_quietly_without_a_traceback():
+    """`acceptance compare JOB --json | head`: the reader goes away before the output ends."""
+    read_end, write_end = os.pipe()
+    os.close(read_end)  # every write now fails with EPIPE, whatever the output's length
+    try:
+        command = [str(SCRIPT)] if SCRIPT.exists() else [sys.executable, "-m", "acceptance.cli"]
+        done = subprocess.run([*command, "compare", str(DEMO_JOB), "--json"], stdout=write_end,
+                              stderr=subprocess.PIPE, text=True, timeout=120, check=False)
+    finally:
+        os.close(write_end)
+    assert "Traceback" not in done.stderr
+    assert "BrokenPipeError" not in done.stderr
+    assert done.stderr == ""
+    assert done.returncode == cli.BROKEN_PIPE_EXIT
+
+
+@pytest.mark.parametrize(("count", "text"), [(0, "0 visits"), (1, "1 visit"), (2, "2 visits")])
+def test_counts_agree_with_their_noun(count, text):
+    from acceptance.wording import counted
+    assert counted(count, "visit") == text
+    assert counted(1, "mismatch", "mismatches") == "1 mismatch"
+    assert counted(3, "mismatch", "mismatches") == "3 mismatches"
+
+
+def test_compare_one_machine_with_one_visit_speaks_of_that_machine(capsys):
+    assert cli.main(["compare", str(DEMO_JOB), "mag-table-1"]) == 0
+    out = capsys.readouterr().out
+    assert "no machine has a visit after its baseline" not in out
+    assert out.strip() == ("mag-table-1 has 1 visit (2026-03-09-commissioning); a comparison "
+                           "needs a later visit")
+
+
+def test_compare_one_machine_with_later_visits_compares_them(capsys):
+    assert cli.main(["compare", str(DEMO_JOB), "press-brake-1"]) in (0, 1)
+    out = capsys.readouterr().out
+    assert out.startswith("press-brake-1: 2026-09-09-periodic")

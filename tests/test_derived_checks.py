@@ -204,6 +204,12 @@ def test_cord_voltage_drop_at_70_c(make_job, evaluate, step):
     assert step(check, "of nominal") == pytest.approx(0.797, rel=5e-4)
     # IEC 60364-5-52 Annex G: 5 % for other loads from a public LV supply [S].
     assert check.verdict is Verdict.PASS
+    # The method is named as used: IEC 60228 resistance at the conductor temperature with
+    # the reactance neglected, not Annex G's own ρ₁ and λ; the limit's clause and edition.
+    assert "IEC 60364-5-52:2009, Annex G, Table G.52.1 (the limit)" in check.source
+    assert "method: IEC 60228 resistance at 70 °C, reactance neglected" in check.source
+    assert "IEC 60204-1:2016 cl. 12.5" in check.source
+    assert step(check, "reactance X") == 0.0
 
 
 def test_cord_voltage_drop_at_20_c_by_job_override(make_job, evaluate, step):
@@ -234,8 +240,10 @@ def test_source_impedance_from_the_sag(make_job, evaluate, step):
 
 def test_equivalent_current_at_50_percent_duty(make_job, evaluate, step):
     machine = {"nameplate": {"rated_voltage": "400 V", "phases": 1, "frequency": "50 Hz",
-                             "duty_cycle": "50 %",
-                             "protective_device": {"description": "MCB", "rating": "32 A"}},
+                             "duty_cycle": "50 %", "load_kind": "arc welder",
+                             "protective_device": {"description": "MCB", "rating": "32 A"},
+                             "supply_cable": {"material": "copper", "cross_section": "4 mm²",
+                                              "length": "10 m", "cores": 3, "ampacity": "32 A"}},
                "checklists": ["current"]}
     root = make_job(machine=machine, visit={"readings": {"current": {
         "load_current": {"L": {"value": "40 A", "instrument": "clamp-trms"}}}}})
@@ -245,6 +253,52 @@ def test_equivalent_current_at_50_percent_duty(make_job, evaluate, step):
     assert step(check, "equivalent current I_eq") == pytest.approx(28.4, rel=1e-12)
     assert step(check, "equivalent current by") == pytest.approx(28.28, rel=5e-4)
     assert check.verdict is Verdict.PASS
+
+
+def test_a_welders_conductor_is_judged_on_one_basis_in_one_record(make_job, evaluate, step):
+    """The same cable must not fail on the raw current and pass on the equivalent current."""
+    machine = {"nameplate": {"rated_voltage": "400 V", "phases": 1, "frequency": "50 Hz",
+                             "duty_cycle": "50 %", "load_kind": "arc welder",
+                             "supply_cable": {"material": "copper", "cross_section": "4 mm²",
+                                              "length": "10 m", "cores": 3, "ampacity": "30 A"}},
+               "checklists": ["current"]}
+    root = make_job(machine=machine, visit={"readings": {"current": {
+        "load_current": {"L": {"value": "40 A", "instrument": "clamp-trms"}}}}})
+    result = evaluate(root)
+    conductor = result.check("current.load_current", "L", "conductor")
+    duty_check = result.check("current.load_current", "L", "duty")
+    # NEC 630.11(A), Table 630.11(A): 40 A at 50 % × 0.71 = 28.4 A ≤ 30 A (reference values
+    # §10) [S]; both checks compare that equivalent current with the 30 A ampacity.
+    assert step(conductor, "equivalent current I_eq") == pytest.approx(28.4, rel=1e-12)
+    assert conductor.verdict is duty_check.verdict is Verdict.PASS
+    assert "630.11(A)" in (conductor.compared or "")
+
+
+def test_intermittent_duty_needs_the_kind_of_load(make_job, evaluate):
+    machine = {"nameplate": {"rated_voltage": "400 V", "phases": 1, "duty_cycle": "50 %"},
+               "checklists": ["current"]}
+    root = make_job(machine=machine, visit={"readings": {"current": {
+        "load_current": {"L": {"value": "40 A", "instrument": "clamp-trms"}}}}})
+    check = evaluate(root).check("current.load_current", "L", "duty")
+    assert check.verdict is Verdict.UNDETERMINED
+    assert "load_kind" in (check.message or "")
+
+
+def test_a_motor_on_intermittent_duty_uses_nec_430_22_e(make_job, evaluate, step):
+    machine = {"nameplate": {"rated_voltage": "400 V", "phases": 3, "rated_current": "20 A",
+                             "load_kind": "motor", "duty_class": "intermittent",
+                             "time_rating": "15 min",
+                             "supply_cable": {"material": "copper", "cross_section": "2.5 mm²",
+                                              "length": "10 m", "cores": 3, "ampacity": "18 A"}},
+               "checklists": ["current"]}
+    root = make_job(machine=machine, visit={"readings": {"current": {
+        "load_current": {"L1": {"value": "19 A", "instrument": "clamp-trms"}}}}})
+    check = evaluate(root).check("current.load_current", "L1", "duty")
+    # NEC Table 430.22(E): intermittent duty, 15-minute rating → 85 % of the nameplate
+    # current [M]: 0.85 × 20 A = 17 A ≤ 18 A.
+    assert step(check, "current for the conductor") == pytest.approx(17.0, rel=1e-12)
+    assert check.verdict is Verdict.PASS
+    assert "430.22(E)" in check.source and "630.11" not in check.source
 
 
 def test_duty_check_not_applicable_at_continuous_duty(make_job, evaluate):

@@ -487,3 +487,32 @@ def test_absence_of_voltage_keeps_the_job_override(make_job, evaluate):
     check = evaluate(root).check("lockout.absence_of_voltage", "L1-PE")
     assert check.verdict is Verdict.PASS
     assert "12 V" in check.limit
+def test_capacitance_check_shows_reactance_and_expected_current(make_job, evaluate, step):
+    """The field check of a run capacitor: Xc = 1/(2πfC) and I = U/Xc at its working voltage."""
+    machine = {"nameplate": {"rated_voltage": "230 V", "phases": 1, "frequency": "50 Hz",
+                             "capacitors": [{"id": "run", "name": "Run capacitor",
+                                             "nominal": "18 µF", "tolerance": "J",
+                                             "working_voltage": "325.27 V"}]},
+               "checklists": ["capacitors"]}
+    root = make_job(machine=machine, visit={"readings": {"capacitors": {"capacitance": {
+        "run": {"value": "18 µF", "instrument": "lcr-1"}}}}})
+    check = evaluate(root).check("capacitors.capacitance", "run")
+    # 18 µF at 50 Hz: Xc = 176.84 Ω; at 230 V r.m.s. (325.27 V peak), 1.3006 A
+    # (reference values §13) [P].
+    assert step(check, "Xc at the supply frequency") == pytest.approx(176.84, abs=0.005)
+    assert step(check, "expected current") == pytest.approx(1.3006, abs=2e-4)
+    formulas = {s.label: s.formula for s in check.steps}
+    assert formulas["Xc at the supply frequency"].startswith("Xc = 1/(2π·f·C)")
+    assert formulas["expected current"].startswith("I = U/Xc")
+
+
+def test_a_dc_filter_capacitor_has_no_ac_field_check(make_job, evaluate):
+    machine = {"nameplate": {"rated_voltage": "230 V", "phases": 1, "frequency": "50 Hz",
+                             "capacitors": [{"id": "run", "name": "Filter capacitor",
+                                             "nominal": "1000 µF", "tolerance": "M",
+                                             "working_voltage": "325 V", "circuit": "dc"}]},
+               "checklists": ["capacitors"]}
+    root = make_job(machine=machine, visit={"readings": {"capacitors": {"capacitance": {
+        "run": {"value": "1000 µF", "instrument": "lcr-1"}}}}})
+    labels = [s.label for s in evaluate(root).check("capacitors.capacitance", "run").steps]
+    assert "expected current" not in labels and "Xc at the supply frequency" not in labels

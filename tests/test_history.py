@@ -29,6 +29,7 @@ from acceptance.history import (
     classify_change,
     compare_visits,
     relative_change,
+    repair_class,
     select_baseline,
     trend_series,
 )
@@ -325,10 +326,33 @@ def test_later_visits_compare_with_the_as_left_value(make_job) -> None:
     part = v1.parts_replaced[0]
     assert part.before == "as found"
     swap = part.behaviour[0]
-    # The swap itself: 26.1 → 30.4 µF, +16.48 % ≥ act 10 % [P]; no cause suggested (known)
+    # The swap itself: 26.1 → 30.4 µF, +16.48 %, past act 10 % [P] by size; but 26.1 µF was
+    # outside 28.5–31.5 µF and 30.4 µF is inside (IEC 60062 J [M]): a repair that worked.
     assert swap.change == pytest.approx(100 * (30.4 / 26.1 - 1), rel=1e-9)
-    assert swap.classification is ChangeClass.ACT
-    assert swap.note is None
+    assert swap.classification is ChangeClass.REPAIRED
+    assert swap.note is not None and swap.note.startswith("restored: outside its limit")
+    assert part.repaired and not part.steady
+
+
+# Direction of repair: a 30 µF J capacitor, limits 28.5–31.5 µF (IEC 60062 J = ±5 % [M]).
+@pytest.mark.parametrize(("before", "after", "by_size", "expected"), [
+    (26.1, 30.4, ChangeClass.ACT, ChangeClass.REPAIRED),     # back inside its limit
+    (28.6, 30.1, ChangeClass.WATCH, ChangeClass.REPAIRED),   # inside, toward nominal
+    (30.0, 31.4, ChangeClass.WATCH, ChangeClass.WATCH),      # inside, away from nominal
+    (30.0, 32.0, ChangeClass.WATCH, ChangeClass.ACT),        # outside after the swap
+    (26.1, 27.0, ChangeClass.STEADY, ChangeClass.ACT),       # still outside: act
+    (30.0, 30.1, ChangeClass.STEADY, ChangeClass.STEADY),    # a fresh part much the same
+])
+def test_a_replaced_part_is_judged_by_the_direction_of_its_repair(before, after, by_size,
+                                                                  expected) -> None:
+    classification, _ = repair_class(before, after, 28.5, 31.5, 30.0, by_size)
+    assert classification is expected
+
+
+def test_with_no_nominal_the_middle_of_the_limit_stands_for_it() -> None:
+    assert repair_class(5.0, 9.0, 0.0, 20.0, None, ChangeClass.ACT)[0] is ChangeClass.REPAIRED
+    # A one-sided limit has no middle: inside before and after keeps the class by size.
+    assert repair_class(5.0, 9.0, None, 20.0, None, ChangeClass.ACT)[0] is ChangeClass.ACT
 
 
 # ------------------------------------------------------------------ voltage normalisation

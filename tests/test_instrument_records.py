@@ -8,6 +8,7 @@ example of reference values §11 (230.4 V, ±(0.5 % of reading + 2 digits), 0.1 
 from __future__ import annotations
 
 import copy
+import math
 
 import pytest
 
@@ -152,3 +153,94 @@ def test_capture_outside_the_machine_folder_is_refused(make_job):
     with pytest.raises(InputError) as caught:
         load_job(root)
     assert "'../../../etc/passwd' leaves the machine folder" in str(caught.value)
+
+
+def test_guarded_acceptance_records_its_guard_band_and_acceptance_limits(make_job, evaluate):
+    """results.json carries the acceptance limits beside the tolerance limits, and w."""
+    from acceptance.results import check_to_json
+    root = make_job(job={"decision_rule": "guarded acceptance"},
+                    instruments=_instruments(**{"dmm-1": {"functions": DMM_ACCURACY}}),
+                    machine=SINGLE_PHASE, visit=_supply("207.9 V"))
+    check = evaluate(root).check("supply.voltage", "L-N")
+    data = check_to_json(check)
+    # ILAC-G8:09/2019 cl. 4.2.2 [S]: under guarded acceptance w = U and the acceptance limit
+    # is the tolerance limit moved inward by w, A_L = T_L + w. U at 207.9 V: a = 0.5 % ×
+    # 207.9 V + 2 × 0.1 V = 1.2395 V, u = a/√3 combined with the resolution's 0.1/√12 V,
+    # U = 2u (reference values §11) [S].
+    u_spec, u_resolution = 1.2395 / math.sqrt(3), 0.1 / math.sqrt(12)
+    expected_u = 2 * math.sqrt(u_spec**2 + u_resolution**2)
+    assert data["guard_band"] == pytest.approx(expected_u, rel=1e-3)
+    assert data["acceptance_lower"] == pytest.approx(data["limit_lower"] + data["guard_band"],
+                                                     rel=1e-12)
+    assert data["acceptance_upper"] == pytest.approx(data["limit_upper"] - data["guard_band"],
+                                                     rel=1e-12)
+    # JCGM 106:2012 cl. 9.2 [M]: the probability assumes a normal distribution with the
+    # standard uncertainty u = U/2, and the record and the JSON say so in one phrase.
+    assert data["conformance"] is not None
+    assert data["conformance_basis"].startswith("normal distribution with the standard "
+                                                "uncertainty u = 0.7")
+    assert "JCGM 106:2012" in data["conformance_basis"]
+
+
+def test_simple_acceptance_has_no_guard_band(make_job, evaluate):
+    root = make_job(job={"decision_rule": "simple acceptance"},
+                    instruments=_instruments(**{"dmm-1": {"functions": DMM_ACCURACY}}),
+                    machine=SINGLE_PHASE, visit=_supply("230.0 V"))
+    check = evaluate(root).check("supply.voltage", "L-N")
+    assert check.guard_band == 0.0
+    assert (check.acceptance_lower, check.acceptance_upper) == (check.limit_lower,
+                                                                check.limit_upper)
+
+
+def test_a_value_from_a_capture_carries_the_scope_and_probe_uncertainty(make_job, evaluate):
+    """A check judged on a capture's true RMS no longer shows U = 0."""
+    from tests.test_history import _square_wave_capture  # ±10 A square wave, 10 mV/A
+
+    register = _instruments()
+    register["instruments"] += [
+        {"id": "scope-1", "kind": "oscilloscope", "response": "true-rms",
+         "calibrated": "2026-01-01", "calibration_due": "2027-01-01",
+         "functions": [{"measures": "V", "accuracy": "±2 % of reading"}]},
+        {"id": "probe-1", "kind": "current probe", "response": "not applicable",
+         "calibrated": "2026-01-01", "calibration_due": "2027-01-01",
+         "functions": [{"measures": "A", "accuracy": "±1 % of reading"}]},
+    ]
+    capture = {"file": "captures/line.csv", "channels": {"CH1": "x100", "CH2": "10 mV/A"},
+               "voltage": "CH1", "current": "CH2", "instrument": "scope-1",
+               "probes": {"CH2": "probe-1"}}
+    machine = {"nameplate": {"rated_voltage": "230 V", "phases": 1, "frequency": "50 Hz",
+                             "rated_current": "12 A"}, "checklists": ["current"]}
+    root = make_job(job={"decision_rule": "guarded acceptance"}, instruments=register,
+                    machine=machine,
+                    files={"machines/m1/captures/line.csv": _square_wave_capture()},
+                    visit={"readings": {"current": {"load_current": {
+                        "L": {"value": "11.1 A", "instrument": "clamp-avg",
+                              "capture": capture}}}}})
+    check = evaluate(root).check("current.load_current", "L", "nameplate")
+    assert check.compared == "true RMS from the capture"
+    # 10 A RMS is 0.1 V at the scope's input: a = 2 % → u = 0.002 V/√3 × 100 A/V = 0.11547 A;
+    # the probe's 1 % of 10 A → u = 0.1 A/√3 = 0.05774 A (rectangular, JCGM 100:2008 4.3.7
+    # [S]); combined in quadrature and U = 2u = 0.2582 A (JCGM 100:2008 5.1.2, 6.2 [S]).
+    expected = 2 * math.hypot(0.002 / math.sqrt(3) * 100, 0.1 / math.sqrt(3))
+    assert check.guard_band == pytest.approx(expected, rel=1e-6)
+    assert "U = 0.26 A (k = 2) of the capture's CH2" in check.decision
+    assert "U = 0 A" not in check.decision
+    # 10 A against 12 A with more than U to spare: pass under guarded acceptance [S].
+    assert check.verdict is Verdict.PASS
+
+
+def test_a_capture_with_no_scope_named_has_an_unknown_uncertainty(make_job, evaluate):
+    from tests.test_history import _square_wave_capture
+
+    capture = {"file": "captures/line.csv", "channels": {"CH1": "x100", "CH2": "10 mV/A"},
+               "voltage": "CH1", "current": "CH2"}
+    machine = {"nameplate": {"rated_voltage": "230 V", "phases": 1, "frequency": "50 Hz",
+                             "rated_current": "12 A"}, "checklists": ["current"]}
+    root = make_job(job={"decision_rule": "guarded acceptance"}, machine=machine,
+                    files={"machines/m1/captures/line.csv": _square_wave_capture()},
+                    visit={"readings": {"current": {"load_current": {
+                        "L": {"value": "11.1 A", "instrument": "clamp-avg",
+                              "capture": capture}}}}})
+    check = evaluate(root).check("current.load_current", "L", "nameplate")
+    assert "names no scope" in check.decision
+    assert check.verdict is Verdict.CONDITIONAL_PASS

@@ -20,6 +20,7 @@ from typing import TYPE_CHECKING, Any
 
 from .. import check_cache
 from ..verdicts import VisitState, count_states
+from ..wording import counted
 
 if TYPE_CHECKING:
     from ..loading import Job, LoadedMachine
@@ -84,7 +85,7 @@ def machine_lines(machine: MachineResult, show_all: bool = False) -> list[str]:
 def totals_line(states: list[str]) -> str:
     """The last line of the summary: how many visits are in each state."""
     counts = count_states(VisitState(state) for state in states)
-    return f"{len(states)} visits: " + ", ".join(
+    return counted(len(states), "visit") + ": " + ", ".join(
         f"{count} {state.word}" for state, count in counts if count)
 
 

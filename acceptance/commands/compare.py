@@ -21,6 +21,7 @@ from ..evaluation import (
 )
 from ..loading import load_job
 from ..results import ChangeClass, JobResult, MachineResult
+from ..wording import counted
 
 
 def register(parser: argparse.ArgumentParser) -> None:
@@ -67,7 +68,24 @@ def comparisons(result: JobResult, machine_id: str | None = None, baseline: str 
     return found
 
 
-def lines(found: list[VisitComparison]) -> list[str]:
+def nothing_to_compare(result: JobResult, machine_id: str | None = None,
+                       baseline: str | None = None) -> str:
+    """Why no comparison was printed: about the machine asked for, or about the job."""
+    if machine_id is None:
+        return "no machine has a visit after its baseline"
+    machine = _machines(result, machine_id)[0]
+    if len(machine.visits) < 2:
+        only = machine.visits[0].id if machine.visits else "none"
+        return (f"{machine.id} has {counted(len(machine.visits), 'visit')} ({only}); a "
+                f"comparison needs a later visit")
+    base = baseline or machine.baseline or select_baseline(machine.visits)
+    if base is None:
+        return f"{machine.id} has no visit that can serve as its baseline"
+    return f"{machine.id} has no visit after its baseline {base}"
+
+
+def lines(found: list[VisitComparison], empty: str = "no machine has a visit after its baseline"
+          ) -> list[str]:
     out: list[str] = []
     for comparison in found:
         out.append(f"{comparison.machine}: {comparison.visit} ({comparison.visit_date}) "
@@ -90,7 +108,7 @@ def lines(found: list[VisitComparison]) -> list[str]:
         out.append(f"  {counts or 'nothing compared'}")
         out.append("")
     if not found:
-        out.append("no machine has a visit after its baseline")
+        out.append(empty)
     return out
 
 
@@ -103,6 +121,7 @@ def run(args: argparse.Namespace) -> int:
         json.dump(document, sys.stdout, ensure_ascii=False, indent=2)
         sys.stdout.write("\n")
     else:
-        print("\n".join(lines(found)).rstrip("\n"))
+        empty = nothing_to_compare(result, args.machine, args.baseline)
+        print("\n".join(lines(found, empty)).rstrip("\n"))
     acted = any(c.classification is ChangeClass.ACT for f in found for c in f.changes)
     return 1 if acted else 0

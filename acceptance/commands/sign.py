@@ -11,6 +11,7 @@ from pathlib import Path
 
 from ..integrity import IntegrityError, load_private_key, sign_visit
 from ..loading import load_job
+from ..wording import counted
 
 _ORDINAL = {1: "second", 2: "third", 3: "fourth"}
 
@@ -42,7 +43,7 @@ def run(args: argparse.Namespace) -> int:
     else:
         print(f"wrote {outcome.path}")
     print(f"  signed by {entry.name} ({entry.role}) at {entry.signed_at}")
-    print(f"  digest {entry.digest} over {len(entry.inputs)} inputs")
+    print(f"  digest {entry.digest} over {counted(len(entry.inputs), 'input')}")
     if entry.key is not None:
         print(f"  Ed25519 key fingerprint {entry.key.fingerprint}")
     else:

@@ -10,6 +10,7 @@ import sys
 from pathlib import Path
 
 from ..integrity import IntegrityError, load_public_key, verify_job, verify_site
+from ..wording import counted
 
 
 def register(parser: argparse.ArgumentParser) -> None:
@@ -27,10 +28,10 @@ def run(args: argparse.Namespace) -> int:
                if args.public_key else None)
     if (folder / "job.yaml").is_file():
         report = verify_job(folder, trusted)
-        what = f"{report.checked} signatures"
+        what = counted(report.checked, "signature")
     elif (folder / "MANIFEST.sha256").is_file():
         report = verify_site(folder, trusted)
-        what = f"{report.checked} files in the manifest"
+        what = counted(report.checked, "file") + " in the manifest"
     else:
         raise IntegrityError(f"{folder} holds neither MANIFEST.sha256 (a built site) nor "
                              "job.yaml (a job folder)")
@@ -41,5 +42,6 @@ def run(args: argparse.Namespace) -> int:
     if report.ok:
         print(f"OK: {what} checked in {folder}, no mismatch")
         return 0
-    print(f"{len(report.problems)} mismatches in {folder} ({what} checked)", file=sys.stderr)
+    print(f"{counted(len(report.problems), 'mismatch', 'mismatches')} in {folder} "
+          f"({what} checked)", file=sys.stderr)
     return 1

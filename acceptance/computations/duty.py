@@ -9,6 +9,9 @@ Sources
 - Joule heating averaged over a period: I_eq = I·√D.
 - NFPA 70 (NEC), 630.11(A) and Table 630.11(A), duty-cycle multipliers for
   arc welders (non-motor-generator S; motor-generator M).
+- NFPA 70 (NEC), 430.22(E) and Table 430.22(E): conductors of motors on
+  short-time, intermittent, periodic or varying duty, as a percentage of the
+  nameplate current by duty class and the motor's time rating [M].
 - NFPA 70 (NEC), 630.12(A) and (B): overcurrent protection of a welder not
   above 200 % of its rated primary current, and of its conductors not above
   200 % of their ampacity [M].
@@ -29,6 +32,8 @@ __all__ = [
     "assess_intermittent_duty",
     "duty_cycle_from_times",
     "equivalent_thermal_current",
+    "MotorDutyPercent",
+    "nec_430_22_e_percent",
     "nec_630_11_multiplier",
 ]
 
@@ -167,6 +172,70 @@ def nec_630_11_multiplier(
         edition="2017-2023",
         status="S" if welder_kind == "nonmotor_generator" else "M",
     )
+
+
+@dataclass(frozen=True)
+class MotorDutyPercent:
+    """A percentage of a motor's nameplate current from NEC Table 430.22(E)."""
+
+    percent: float
+    """[%]"""
+    duty_class: str
+    time_rating: str
+    standard: str
+    clause: str
+    edition: str
+    status: str
+
+
+# NEC Table 430.22(E): duty class → percent of nameplate current by the motor's time rating
+# (5-minute, 15-minute, 30- and 60-minute, continuous) [M].
+_NEC_430_22_E_RATINGS = ("5 min", "15 min", "30 min", "60 min", "continuous")
+_NEC_430_22_E = {
+    "short-time": (110, 120, 150, 150, None),
+    "intermittent": (85, 85, 90, 90, 140),
+    "periodic": (85, 90, 95, 95, 140),
+    "varying": (110, 120, 150, 150, 200),
+}
+
+
+def nec_430_22_e_percent(duty_class: str, time_rating: str) -> MotorDutyPercent:
+    """Conductor sizing percentage for a motor on non-continuous duty.
+
+    Parameters
+    ----------
+    duty_class : str
+        ``"short-time"``, ``"intermittent"``, ``"periodic"`` or ``"varying"``.
+    time_rating : str
+        The motor's time rating: ``"5 min"``, ``"15 min"``, ``"30 min"``, ``"60 min"`` or
+        ``"continuous"``.
+
+    Returns
+    -------
+    MotorDutyPercent
+
+    Notes
+    -----
+    The supply conductors' ampacity shall be not less than the percentage of the motor's
+    nameplate current rating the table gives. A short-time-duty motor has no continuous
+    rating in the table.
+
+    References
+    ----------
+    NFPA 70 (NEC), 430.22(E), Table 430.22(E) [M].
+    """
+    if duty_class not in _NEC_430_22_E:
+        raise ComputationError(f"duty class {duty_class!r} must be one of "
+                               f"{', '.join(_NEC_430_22_E)}")
+    if time_rating not in _NEC_430_22_E_RATINGS:
+        raise ComputationError(f"time rating {time_rating!r} must be one of "
+                               f"{', '.join(_NEC_430_22_E_RATINGS)}")
+    percent = _NEC_430_22_E[duty_class][_NEC_430_22_E_RATINGS.index(time_rating)]
+    if percent is None:
+        raise ComputationError(f"Table 430.22(E) gives no percentage for {duty_class} duty "
+                               f"with a {time_rating} rating")
+    return MotorDutyPercent(float(percent), duty_class, time_rating, "NFPA 70 (NEC)",
+                            "430.22(E), Table 430.22(E)", "2023", "M")
 
 
 @dataclass(frozen=True)

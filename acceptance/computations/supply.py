@@ -153,10 +153,17 @@ _ANSI_C84_1 = {
     "480": (480.0, (456.0, 504.0), (440.0, 508.0), "M"),
     "208Y/120": (208.0, (197.0, 218.0), (191.0, 220.0), "M"),
 }
+# ANSI C84.1 Table 1, minimum utilization voltage (at the terminals of the equipment), range
+# A and B; the maximum is the column shared with the service voltage [M, reference values §3].
+_ANSI_C84_1_UTILIZATION_MINIMUM = {
+    "120": (108.0, 104.0), "240": (216.0, 208.0), "480": (432.0, 416.0),
+    "208Y/120": (187.0, 180.0),
+}
 
 
-def ansi_c84_1_window(nominal_system: str | int, voltage_range: str = "A") -> SupplyWindow:
-    """ANSI C84.1 service-voltage window for a nominal system.
+def ansi_c84_1_window(nominal_system: str | int, voltage_range: str = "A",
+                      location: str = "service") -> SupplyWindow:
+    """ANSI C84.1 voltage window for a nominal system at the service point or the equipment.
 
     Parameters
     ----------
@@ -164,15 +171,19 @@ def ansi_c84_1_window(nominal_system: str | int, voltage_range: str = "A") -> Su
         ``120``, ``240``, ``480`` or ``"208Y/120"`` (a trailing ``V`` is accepted).
     voltage_range : str
         ``"A"`` (normal) or ``"B"`` (infrequent, corrective action required).
+    location : str
+        ``"service"`` for a reading at the service point (the service-voltage range);
+        ``"utilization"`` for one at the machine's terminals (the utilization-voltage range,
+        whose minimum allows for the drop in the premises wiring).
 
     Returns
     -------
     SupplyWindow
-        The window applies to the voltage at the service point.
 
     References
     ----------
-    ANSI C84.1, Table 1 [120 V S; 240, 480, 208Y/120 M].
+    ANSI C84.1, Table 1 [service 120 V S; the rest and the utilization column M; the edition
+    in force (2016 or 2020) is not checked against the text].
     """
     key = str(nominal_system).strip().upper().removesuffix("V").strip()
     if key not in _ANSI_C84_1:
@@ -183,11 +194,19 @@ def ansi_c84_1_window(nominal_system: str | int, voltage_range: str = "A") -> Su
     which = str(voltage_range).strip().upper().removeprefix("RANGE").strip()
     if which not in ("A", "B"):
         raise ComputationError(f"voltage_range {voltage_range!r} must be 'A' or 'B'")
+    if location not in ("service", "utilization"):
+        raise ComputationError(f"location {location!r} must be 'service' (at the service point) "
+                               f"or 'utilization' (at the machine's terminals)")
     nominal, range_a, range_b, status = _ANSI_C84_1[key]
     lower, upper = range_a if which == "A" else range_b
+    if location == "utilization":
+        lower = _ANSI_C84_1_UTILIZATION_MINIMUM[key][0 if which == "A" else 1]
+        return SupplyWindow("voltage", nominal, lower, upper, "V", "ANSI C84.1",
+                            f"Table 1, Range {which} (utilization voltage, at the "
+                            f"equipment's terminals)", "2020", "M", note=f"{key} V system")
     return SupplyWindow("voltage", nominal, lower, upper, "V", "ANSI C84.1",
-                        f"Table 1, Range {which} (service voltage)", "2020", status,
-                        note=f"{key} V system")
+                        f"Table 1, Range {which} (service voltage, at the service point)",
+                        "2020", status, note=f"{key} V system")
 
 
 # --------------------------------------------------------------------------- unbalance
@@ -429,9 +448,13 @@ class DeratingFactor:
     status: str = "S"
 
 
-# NEMA MG 1 Figure 14-1 read at these points, ±0.01 [S, reference values §4]: percent → factor
+# NEMA MG 1 Figure 14-1 read at these points, ±0.01 [S, reference values §4]: percent → factor.
+# The curve starts at 1 %: MG 1 (2016, 12.45 and 14.36 [M]) states that a motor operates
+# successfully at rated load with up to 1 % voltage unbalance at its terminals, so there is
+# no derating up to 1 %.
+NEMA_NO_DERATING_UP_TO = 1.0  # [%]
 _NEMA_DERATING = (
-    (0.5, 1.00), (1.5, 0.97), (2.0, 0.95), (2.5, 0.93), (3.0, 0.89),
+    (NEMA_NO_DERATING_UP_TO, 1.00), (1.5, 0.97), (2.0, 0.95), (2.5, 0.93), (3.0, 0.89),
     (3.5, 0.85), (4.0, 0.82), (4.5, 0.78), (5.0, 0.76),
 )
 
@@ -447,12 +470,13 @@ def nema_derating_factor(voltage_unbalance: float) -> DeratingFactor:
     Returns
     -------
     DeratingFactor
-        1.00 up to 0.5 %, linear between the points read off the curve, and no
-        factor (``advised`` false) above 5 %.
+        1.00 up to 1 % (rated load is carried there), linear between the points read off
+        the curve, and no factor (``advised`` false) above 5 %.
 
     References
     ----------
-    NEMA MG 1, 14.36, Figure 14-1 [S, points ±0.01].
+    NEMA MG 1, 14.36, Figure 14-1 [S, points ±0.01]; NEMA MG 1-2016, 12.45 (rated load up
+    to 1 % unbalance) [M].
     """
     unbalance = _finite("voltage_unbalance", voltage_unbalance, "")
     if unbalance < 0:
@@ -470,6 +494,9 @@ def nema_derating_factor(voltage_unbalance: float) -> DeratingFactor:
             if percent <= x1:
                 factor = y0 + (y1 - y0) * (percent - x0) / (x1 - x0)
                 break
+    if percent <= NEMA_NO_DERATING_UP_TO + 1e-9:
+        return DeratingFactor(1.0, True, f"no derating at {percent:.2f} %: NEMA MG 1-2016 "
+                                         f"12.45 — rated load up to 1 % unbalance")
     return DeratingFactor(factor, True, f"factor read off the curve at {percent:.2f} %")
 
 

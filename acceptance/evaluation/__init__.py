@@ -54,13 +54,14 @@ from .instruments import (
     ReadingUncertainty,
     assess,
     capture_findings,
+    capture_uncertainty,
     instrument_findings,
     reading_uncertainty,
 )
 from .punch_list import deficiencies, open_required
 from .register import instrument_entries, instrument_uses
 from .registry import RULES
-from .rules import Context, Outcome
+from .rules import Context, Outcome, _captured_current
 
 # The comparison of two visits, for ``compare`` against a baseline of the user's choice: it
 # is a judgement, so commands reach it through evaluation, never history itself.
@@ -141,9 +142,26 @@ def _evaluate_element(item: ChecklistItem, checklist: LoadedChecklist, element: 
         if outcome.source_note and not override:
             source = (outcome.source_note if outcome.source_replaces
                       else f"{source}; {outcome.source_note}")
-        assessment = assess(outcome, uncertainty if uncertainty is not None else
-                            "no instrument named", job.model.decision_rule, instrument,
-                            visit.model.date, item)
+        if outcome.capture_sensitivity is not None and reading.capture is not None:
+            # Judged on the capture's value: the scope and its probe give U, not the meter.
+            captured = _captured_current(reading)
+            capture_u = capture_uncertainty(
+                job.instruments, reading.capture_setup, reading.capture.current_channel,
+                captured.rms if captured is not None else 0.0, Dimension.CURRENT,
+                job.model.coverage_factor)
+            setup = reading.capture_setup
+            scope = (job.instruments.get(setup.scope) if setup is not None and setup.scope
+                     else None)
+            from_capture = dataclasses.replace(outcome, sensitivity=outcome.capture_sensitivity)
+            assessment = assess(from_capture, capture_u, job.model.decision_rule, scope,
+                                visit.model.date, item)
+            if isinstance(capture_u, ReadingUncertainty) and assessment.decision:
+                assessment = dataclasses.replace(
+                    assessment, decision=f"{assessment.decision}; {capture_u.phrase}")
+        else:
+            assessment = assess(outcome, uncertainty if uncertainty is not None else
+                                "no instrument named", job.model.decision_rule, instrument,
+                                visit.model.date, item)
         message = "; ".join(m for m in (outcome.message, assessment.message) if m) or None
         compared_value, compared_unit = _compared(outcome)
         tolerance = outcome.tolerance
@@ -154,7 +172,10 @@ def _evaluate_element(item: ChecklistItem, checklist: LoadedChecklist, element: 
             decision=assessment.decision, conformance=assessment.conformance,
             compared_value=compared_value, compared_unit=compared_unit,
             limit_lower=tolerance.lower if tolerance else None,
-            limit_upper=tolerance.upper if tolerance else None))
+            limit_upper=tolerance.upper if tolerance else None,
+            guard_band=assessment.guard_band, acceptance_lower=assessment.acceptance_lower,
+            acceptance_upper=assessment.acceptance_upper, acceptance=assessment.acceptance,
+            conformance_basis=assessment.conformance_basis))
     verdict = worst([c.verdict for c in checks], empty=Verdict.RECORDED)
     value = reading.value
     if isinstance(value, Quantity):

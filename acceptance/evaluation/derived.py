@@ -128,9 +128,12 @@ def _voltage_unbalance(reading: Reading, context: Context, params: dict[str, Any
         Step("unbalance, sequence definition u₂", f"{sequence_pct:.3f} %", sequence_pct, "%",
              formula="β = ΣU⁴/(ΣU²)², u₂ = √((1 − √(3 − 6β)) / (1 + √(3 − 6β)))"),
         Step("NEMA derating factor",
-             f"{derating.factor:.2f} ({derating.standard} {derating.clause})"
+             (f"{derating.factor:.2f} ({derating.standard} {derating.clause}"
+              + ("; " + derating.note if derating.note.startswith("no derating") else "")
+              + ")")
              if derating.factor is not None else derating.note,
-             derating.factor, "1", formula="read off the curve at the NEMA unbalance"),
+             derating.factor, "1", formula="read off the curve at the NEMA unbalance; 1.00 "
+                                           "up to 1 % (NEMA MG 1-2016 12.45)"),
     ]
     # How far the compared value moves per volt of one reading, combined over the three
     # readings as if independent (GUM 5.1.2): ∂u₂/∂Uᵢ by central differences.
@@ -390,6 +393,8 @@ def _cable_voltage_drop(reading: Reading, context: Context, params: dict[str, An
         Step("power factor cos φ", f"{power_factor:g}" + ("" if cable.power_factor else
                                                           " (resistive: none given)"),
              power_factor, "1"),
+        Step("reactance X", "neglected (0 Ω/m): the drop is resistive only, not IEC 60364-5-52 "
+             "Annex G's λ = 0.08 mΩ/m", 0.0, "Ω/m"),
         Step("voltage drop ΔU", _fmt(drop.voltage_drop, Dimension.VOLTAGE, "V"),
              drop.voltage_drop, "V", formula=drop.model),
         Step("of nominal", f"{percent:.3f} % of {nameplate.rated_voltage.format()}", percent,
@@ -397,9 +402,11 @@ def _cable_voltage_drop(reading: Reading, context: Context, params: dict[str, An
     )
     return _compare(tolerance, percent, steps,
                     sensitivity=sensitivity_scale * percent / reading.value.value,
+                    capture_sensitivity=(percent / current if sensitivity_scale == 0.0
+                                         else None),
                     compared="voltage drop ΔU / U_n",
-                    source_note="recommended (informative); reactance neglected; "
-                                f"conductor at {conductor_temperature:g} °C")
+                    source_note="recommended (informative); method: IEC 60228 resistance at "
+                                f"{conductor_temperature:g} °C, reactance neglected")
 
 
 def _source_impedance(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
@@ -438,43 +445,101 @@ def _source_impedance(reading: Reading, context: Context, params: dict[str, Any]
 # ------------------------------------------------------------------ intermittent duty
 
 
+_WELDERS = {"arc welder": "nonmotor_generator", "motor-generator arc welder": "motor_generator"}
+
+
 def _intermittent_duty(reading: Reading, context: Context, params: dict[str, Any]) -> Outcome:
-    """Equivalent thermal current at the nameplate duty cycle against device and conductor."""
+    """The supply conductor of an intermittent load, by the rule for the kind of load.
+
+    A welder's conductor is judged on the equivalent current NEC 630.11(A) defines (rated
+    current × the Table 630.11(A) multiplier for its duty cycle); a motor's on the percentage
+    of its nameplate current NEC Table 430.22(E) gives for its duty class and time rating.
+    """
     assert isinstance(reading.value, Quantity)
     nameplate = context.nameplate
+    kind = nameplate.load_kind
+    if kind == "motor" and nameplate.duty_class is not None:
+        return _motor_duty(reading, context)
     if nameplate.duty_cycle is None or nameplate.duty_cycle.value >= 100.0:
         return Outcome(Verdict.NOT_APPLICABLE, "continuous duty",
                        message="the nameplate duty cycle is 100 % or not given")
+    if kind is None or kind == "motor":
+        what = ("give the motor's duty_class and time_rating (NEC Table 430.22(E))"
+                if kind == "motor" else
+                "state load_kind in the nameplate (arc welder, motor-generator arc welder, "
+                "motor or other): NEC 630.11(A) applies to welders, 430.22(E) to motors")
+        return Outcome(Verdict.UNDETERMINED, "I_eq ≤ Iz",
+                       message=f"the rule for an intermittent load depends on its kind; {what}")
     fraction = nameplate.duty_cycle.value / 100.0
-    multiplier = duty.nec_630_11_multiplier(fraction)
     by_root = duty.equivalent_thermal_current(reading.value.value, fraction)
-    by_table = reading.value.value * multiplier.multiplier
-    limits = []
-    if nameplate.protective_device is not None:
-        limits.append(("protective device", nameplate.protective_device.rating.value))
-    cable = nameplate.supply_cable
-    if cable is not None and cable.ampacity is not None:
-        limits.append(("conductor ampacity", cable.ampacity.value))
     steps = [
         Step("current while on I", reading.value.format(), reading.value.value, "A"),
         Step("duty cycle D", nameplate.duty_cycle.format(), nameplate.duty_cycle.value, "%"),
         Step("equivalent current by √D", _fmt(by_root, Dimension.CURRENT, "A"), by_root, "A",
              formula="I_eq = I · √D"),
-        Step("NEC multiplier", f"{multiplier.multiplier:.2f} ({multiplier.standard} "
-             f"{multiplier.clause}, row {multiplier.table_row})", multiplier.multiplier, "1"),
-        Step("equivalent current I_eq", _fmt(by_table, Dimension.CURRENT, "A"), by_table, "A",
-             formula="I_eq = I × multiplier"),
     ]
-    if not limits:
+    if kind in _WELDERS:
+        multiplier = duty.nec_630_11_multiplier(fraction, _WELDERS[kind])
+        compared = reading.value.value * multiplier.multiplier
+        sensitivity = multiplier.multiplier
+        steps += [
+            Step("NEC multiplier", f"{multiplier.multiplier:.2f} ({multiplier.standard} "
+                 f"{multiplier.clause}, {kind}, row {multiplier.table_row})",
+                 multiplier.multiplier, "1"),
+            Step("equivalent current I_eq", _fmt(compared, Dimension.CURRENT, "A"), compared,
+                 "A", formula="I_eq = I × multiplier (NEC 630.11(A))"),
+        ]
+        basis = f"NEC 630.11(A), Table 630.11(A) ({kind})"
+    else:
+        # Another intermittent load: the Joule heating averaged over a period [P].
+        compared, sensitivity = by_root, math.sqrt(fraction)
+        basis = "I·√D, the heating averaged over the period [P]"
+    cable = nameplate.supply_cable
+    if cable is not None and cable.ampacity is not None:
+        name, limit = "conductor ampacity", cable.ampacity.value
+    elif nameplate.protective_device is not None and kind not in _WELDERS:
+        name, limit = "protective device", nameplate.protective_device.rating.value
+    else:
         return Outcome(Verdict.RECORDED, "recorded", tuple(steps),
-                       message="no protective device or conductor ampacity on the nameplate")
-    name, smallest = min(limits, key=lambda pair: pair[1])
-    for label, value in limits:
-        steps.append(Step(label, _fmt(value, Dimension.CURRENT, "A"), value, "A"))
-    tolerance = Tolerance(Dimension.CURRENT, "I_eq", "A", None, smallest)
-    return _compare(tolerance, by_table, steps, sensitivity=multiplier.multiplier,
+                       message="no conductor ampacity (supply_cable.ampacity) on the nameplate")
+    steps.append(Step(name, _fmt(limit, Dimension.CURRENT, "A"), limit, "A"))
+    tolerance = Tolerance(Dimension.CURRENT, "I_eq", "A", None, limit)
+    return _compare(tolerance, compared, steps, sensitivity=sensitivity,
                     compared="equivalent current I_eq",
-                    source_note=f"compared with the {name}, the smaller rating")
+                    source_note=f"{basis}; compared with the {name}")
+
+
+def _motor_duty(reading: Reading, context: Context) -> Outcome:
+    nameplate = context.nameplate
+    if nameplate.time_rating is None or nameplate.duty_class is None:
+        return Outcome(Verdict.UNDETERMINED, "I ≤ Iz",
+                       message="give the motor's time_rating with its duty_class "
+                               "(NEC Table 430.22(E))")
+    row = duty.nec_430_22_e_percent(nameplate.duty_class, nameplate.time_rating)
+    rated = nameplate.rated_current
+    if rated is None:
+        return Outcome(Verdict.UNDETERMINED, "I ≤ Iz",
+                       message="NEC 430.22(E) sizes the conductor on the nameplate current; add "
+                               "rated_current to machine.yaml")
+    needed = rated.value * row.percent / 100.0
+    steps = [
+        Step("nameplate current", rated.format(), rated.value, "A"),
+        Step("duty class and time rating", f"{row.duty_class}, {row.time_rating}"),
+        Step("percentage", f"{row.percent:g} % ({row.standard}:{row.edition} {row.clause})",
+             row.percent, "%"),
+        Step("current for the conductor", _fmt(needed, Dimension.CURRENT, "A"), needed, "A",
+             formula="I = nameplate current × percentage"),
+    ]
+    cable = nameplate.supply_cable
+    if cable is None or cable.ampacity is None:
+        return Outcome(Verdict.RECORDED, "recorded", tuple(steps),
+                       message="no conductor ampacity (supply_cable.ampacity) on the nameplate")
+    steps.append(Step("conductor ampacity", cable.ampacity.format(), cable.ampacity.value, "A"))
+    tolerance = Tolerance(Dimension.CURRENT, "I", "A", None, cable.ampacity.value)
+    return _compare(tolerance, needed, steps, sensitivity=0.0,
+                    compared="nameplate current × Table 430.22(E) percentage",
+                    source_note=f"{row.standard}:{row.edition} {row.clause} [M]",
+                    source_replaces=True)
 
 
 # ------------------------------------------------------------------ evaluate functions

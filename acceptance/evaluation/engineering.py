@@ -10,12 +10,31 @@ from __future__ import annotations
 
 import functools
 
-from ..computations import ComputationError, resistance, temperature_rise
+from ..computations import ComputationError, capacitors, duty, resistance, temperature_rise
 from ..computations.resistance import ConductorConstant
 from ..computations.temperature_rise import RiseLimit
 
-__all__ = ["ConductorConstant", "RiseLimit", "limit_source", "resistance_at_temperature",
-           "rise_by_resistance", "rise_limit", "temperature_constant"]
+__all__ = ["ConductorConstant", "RiseLimit", "capacitive_reactance", "limit_source",
+           "welder_multiplier",
+           "resistance_at_temperature", "rise_by_resistance", "rise_limit", "temperature_constant"]
+
+
+def capacitive_reactance(capacitance: float, frequency: float) -> float:
+    """Xc = 1/(2π f C), by :func:`capacitors.capacitive_reactance`."""
+    return capacitors.capacitive_reactance(capacitance, frequency)
+
+
+_WELDER_KINDS = {"arc welder": "nonmotor_generator",
+                 "motor-generator arc welder": "motor_generator"}
+
+
+def welder_multiplier(load_kind: str | None, duty_cycle_percent: float | None
+                      ) -> duty.DutyMultiplier | None:
+    """NEC Table 630.11(A)'s multiplier for a welder's supply conductor, or None when the
+    load is no welder or runs continuously."""
+    if load_kind not in _WELDER_KINDS or duty_cycle_percent is None or duty_cycle_percent >= 100:
+        return None
+    return duty.nec_630_11_multiplier(duty_cycle_percent / 100.0, _WELDER_KINDS[load_kind])
 
 
 @functools.lru_cache(maxsize=64)

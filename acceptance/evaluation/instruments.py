@@ -13,12 +13,13 @@ from __future__ import annotations
 import datetime as _dt
 import functools
 from dataclasses import dataclass
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 from ..computations import ComputationError
 from ..computations import uncertainty as unc
 from ..model import AccuracyEntry, ChecklistItem, Instrument
 from ..results import Verdict
+from ..tolerance import Tolerance
 from ..units import Dimension, Quantity, format_value, parse_quantity
 from .rules import Outcome
 
@@ -49,6 +50,21 @@ class Assessment:
     decision: str | None
     conformance: float | None
     message: str | None
+    # The decision rule's guard band w and the acceptance limits (each tolerance limit moved
+    # inward by w, ILAC-G8:09/2019 cl. 4.2.2); w = 0 under simple acceptance.
+    guard_band: float | None = None
+    acceptance_lower: float | None = None
+    acceptance_upper: float | None = None
+    acceptance: str | None = None  # the acceptance limits as a phrase, e.g. "U ≤ 252.2 V"
+    conformance_basis: str | None = None  # the distribution the probability assumes
+
+
+# JCGM 106:2012 cl. 9.2: with a normal PDF for the measurand, the probability of conformity
+# is computed from the best estimate and its standard uncertainty u (not U = k·u) [M].
+def conformance_basis(standard: float, dimension: Dimension, unit: str) -> str:
+    return (f"normal distribution with the standard uncertainty u = "
+            f"{format_value(standard, dimension, unit, 2)} about the compared value, "
+            f"JCGM 106:2012 cl. 9.2 [M]")
 
 
 def _entry_for(instrument: Instrument, reading: Quantity,
@@ -116,6 +132,46 @@ def reading_uncertainty(instrument: Instrument | None, reading: Quantity,
                               coverage_factor, phrase)
 
 
+def capture_uncertainty(instruments: dict[str, Instrument], setup: Any, channel: str | None,
+                        value: float, dimension: Dimension,
+                        coverage_factor: float) -> ReadingUncertainty | str:
+    """The uncertainty of a value taken from a capture's channel, from the register.
+
+    The scope's accuracy applies to the voltage at its input (the value over the channel's
+    scaling factor) and is scaled back; the probe's ratio or sensitivity accuracy applies to
+    the value itself. Both standard uncertainties are combined in quadrature (JCGM 100:2008
+    5.1.2, uncorrelated inputs) [S] and expanded with the job's coverage factor.
+    """
+    if setup is None or setup.scope is None:
+        return ("the capture names no scope ('instrument:' under capture), so its "
+                "uncertainty is not known")
+    if channel is None or channel not in setup.factors:
+        return "the capture's channel has no scaling"
+    scope = instruments[setup.scope]
+    factor = setup.factors[channel]
+    at_input = reading_uncertainty(scope, Quantity(value / factor, Dimension.VOLTAGE), None,
+                                   coverage_factor)
+    if isinstance(at_input, str):
+        return f"{setup.scope}: {at_input} (volts at the scope's input)"
+    standard = at_input.standard * abs(factor)
+    parts = [f"{setup.scope} {at_input.phrase.split(', from ', 1)[-1]}"]
+    probe_id = setup.probes.get(channel)
+    if probe_id is not None:
+        by_probe = reading_uncertainty(instruments[probe_id], Quantity(value, dimension), None,
+                                       coverage_factor)
+        if isinstance(by_probe, str):
+            return f"{probe_id}: {by_probe}"
+        standard = (standard**2 + by_probe.standard**2) ** 0.5
+        parts.append(f"{probe_id} {by_probe.phrase.split(', from ', 1)[-1]}")
+    else:
+        parts.append(f"no probe named for {channel}: its accuracy is not included")
+    expanded = coverage_factor * standard
+    unit = {Dimension.CURRENT: "A", Dimension.VOLTAGE: "V"}.get(dimension)
+    phrase = (f"U = {format_value(expanded, dimension, unit, 2)} (k = {coverage_factor:g}) "
+              f"of the capture's {channel}, from " + " and ".join(parts))
+    return ReadingUncertainty(expanded, standard, coverage_factor, phrase)
+
+
 def assess(outcome: Outcome, uncertainty: ReadingUncertainty | str, rule_name: str,
            instrument: Instrument | None, visit_date: _dt.date, item: ChecklistItem,
            ) -> Assessment:
@@ -123,6 +179,8 @@ def assess(outcome: Outcome, uncertainty: ReadingUncertainty | str, rule_name: s
     verdict = outcome.verdict
     decision = None
     conformance = None
+    basis = None
+    guard: tuple[float, float | None, float | None, str] | None = None
     messages: list[str] = []
     rule = unc.DecisionRule(rule_name)
     tolerance = outcome.tolerance
@@ -139,10 +197,16 @@ def assess(outcome: Outcome, uncertainty: ReadingUncertainty | str, rule_name: s
                         f"{format_value(expanded, tolerance.dimension, tolerance.unit, 2)}"
                         + (" (propagated to the compared value)"
                            if abs(outcome.sensitivity - 1.0) > 1e-12 else ""))
+            accepted = Tolerance(tolerance.dimension, tolerance.symbol, tolerance.unit,
+                                 result.acceptance_lower, result.acceptance_upper,
+                                 tolerance.digits)
+            guard = (result.guard_band, result.acceptance_lower, result.acceptance_upper,
+                     accepted.describe())
             distance = tolerance.distance_outside(outcome.compared_value)
             if standard > 0 and abs(distance) <= 2 * expanded:
                 conformance = unc.conformance_probability(
                     outcome.compared_value, standard, tolerance.lower, tolerance.upper)
+                basis = conformance_basis(standard, tolerance.dimension, tolerance.unit)
         else:
             decision = f"{rule.value} could not account for the instrument: {uncertainty}"
             if rule is unc.DecisionRule.GUARDED and verdict is Verdict.PASS:
@@ -158,7 +222,12 @@ def assess(outcome: Outcome, uncertainty: ReadingUncertainty | str, rule_name: s
             verdict = Verdict.UNDETERMINED
             messages.append(f"{instrument.id}: {state.phrase} on the visit date "
                             f"({visit_date.isoformat()}); repeat with a calibrated instrument")
-    return Assessment(verdict, decision, conformance, "; ".join(messages) or None)
+    if guard is None:
+        return Assessment(verdict, decision, conformance, "; ".join(messages) or None,
+                          conformance_basis=basis)
+    return Assessment(verdict, decision, conformance, "; ".join(messages) or None,
+                      guard_band=guard[0], acceptance_lower=guard[1],
+                      acceptance_upper=guard[2], acceptance=guard[3], conformance_basis=basis)
 
 
 def capture_findings(instrument: Instrument | None,

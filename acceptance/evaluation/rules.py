@@ -8,6 +8,7 @@ phrase and every intermediate value. Rules call the pure functions in
 
 from __future__ import annotations
 
+import math
 from collections.abc import Callable
 from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
@@ -82,6 +83,9 @@ class Outcome:
     tolerance: Tolerance | None = None
     compared_value: float | None = None
     sensitivity: float = 1.0
+    # A value taken from an attached capture's current channel: ∂compared/∂captured value,
+    # so the scope's and probe's uncertainty is propagated instead of the reading's.
+    capture_sensitivity: float | None = None
 
 
 def _compare(tolerance: Tolerance, value: float, steps: tuple[Step, ...] | list[Step] = (),
@@ -262,7 +266,7 @@ def _current_against(reading: Reading, context: Context, params: dict[str, Any])
         steps.append(Step("loading", f"{100 * value / limit:.1f} % of the limit",
                           100 * value / limit, "%"))
         return _compare(tolerance, value, steps, compared=f"{label_value} from the capture",
-                        sensitivity=0.0)
+                        sensitivity=0.0, capture_sensitivity=1.0)
     if basis is None:
         return Outcome(Verdict.UNDETERMINED, tolerance.describe(), tuple(steps),
                        message="the reading's basis is unknown; name the instrument or write "
@@ -275,6 +279,26 @@ def _current_against(reading: Reading, context: Context, params: dict[str, Any])
             Verdict.UNDETERMINED, tolerance.describe(), tuple(steps),
             message=f"{_article(basis.phrase)} {basis.phrase} reading cannot be compared with "
                     f"{_article(needed.phrase)} {needed.phrase} {label}; {advice}")
+    nameplate = context.nameplate
+    welder = (eng.welder_multiplier(nameplate.load_kind, nameplate.duty_cycle.value
+                                    if nameplate.duty_cycle is not None else None)
+              if reference_name == "conductor" else None)
+    if welder is not None:
+        # NEC 630.11(A): a welder's supply conductor is sized on the equivalent current, not
+        # on the current while welding; judging it on the raw current would fail the same
+        # cable the duty check passes.
+        value = reading.value.value * welder.multiplier
+        steps += [Step("NEC multiplier", f"{welder.multiplier:.2f} ({welder.standard} "
+                       f"{welder.clause}, row {welder.table_row})", welder.multiplier, "1"),
+                  Step("equivalent current I_eq", format_value(value, Dimension.CURRENT, "A"),
+                       value, "A", formula="I_eq = I × multiplier (NEC 630.11(A))"),
+                  Step("loading", f"{100 * value / limit:.1f} % of the limit",
+                       100 * value / limit, "%")]
+        return _compare(Tolerance(Dimension.CURRENT, "I_eq", reference.unit or "A", None, limit),
+                        value, steps, sensitivity=welder.multiplier,
+                        compared="equivalent current I_eq of NEC 630.11(A)",
+                        source_note="a welder's supply conductor: NEC 630.11(A), "
+                                    "Table 630.11(A)")
     steps.append(Step("loading", f"{100 * reading.value.value / limit:.1f} % of the limit",
                       100 * reading.value.value / limit, "%"))
     return _compare(tolerance, reading.value.value, steps)
@@ -357,8 +381,37 @@ def _capacitance(reading: Reading, context: Context, params: dict[str, Any]) -> 
         Step("tolerance", f"{description}: {lower_pct:+g} % / {upper_pct:+g} %"),
         Step("deviation", _pct(100 * (reading.value.value / nominal.value - 1)),
              100 * (reading.value.value / nominal.value - 1), "%"),
+        *_capacitor_field_check(capacitor, reading.value.value, context),
     )
     return _compare(tolerance, reading.value.value, steps)
+
+
+def _capacitor_field_check(capacitor: Any, capacitance: float, context: Context) -> list[Step]:
+    """The a.c. field check of a run capacitor: its reactance at the supply frequency and the
+    current it should draw at its working voltage, from the measured capacitance.
+
+    The working voltage is recorded as a peak (it also gives the stored energy); on a
+    sinusoidal supply the r.m.s. voltage across the capacitor is Û/√2. A clamp reading of the
+    capacitor's current far from this figure points to a failing capacitor or a wrong
+    working voltage [P] (reference values §13).
+    """
+    frequency = context.nameplate.frequency
+    if capacitor.circuit != "ac" or frequency is None or capacitance <= 0:
+        return []
+    f = frequency.value
+    reactance = eng.capacitive_reactance(capacitance, f)
+    steps = [Step("Xc at the supply frequency", format_value(reactance, Dimension.RESISTANCE),
+                  reactance, "Ω",
+                  formula=f"Xc = 1/(2π·f·C), f = {format_value(f, Dimension.FREQUENCY)}, "
+                          f"C as measured")]
+    if capacitor.working_voltage is not None:
+        volts = capacitor.working_voltage.value / math.sqrt(2)
+        current = volts / reactance
+        steps.append(Step("expected current", format_value(current, Dimension.CURRENT), current,
+                          "A", formula=f"I = U/Xc, U = Û/√2 = "
+                                       f"{format_value(volts, Dimension.VOLTAGE)} "
+                                       f"(working voltage, sinusoidal supply)"))
+    return steps
 
 
 # ------------------------------------------------------------------ temperature

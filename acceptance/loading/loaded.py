@@ -58,6 +58,16 @@ class Reading:
     line: int
     range: Quantity | None = None  # the instrument range, when the reading names one
     capture: Any = None  # a CaptureAnalysis when a scope capture is attached
+    # The capture's instruments: the scope (register id), each channel's probe (register id)
+    # and each channel's scaling (physical units per recorded volt), for its uncertainty.
+    capture_setup: CaptureSetup | None = None
+
+
+@dataclass(frozen=True)
+class CaptureSetup:
+    scope: str | None
+    probes: dict[str, str]
+    factors: dict[str, float]
 
 
 @dataclass

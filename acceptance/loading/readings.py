@@ -18,6 +18,7 @@ from .loaded import (
     _CONFIRM_TRUE,
     _NOT_APPLICABLE,
     _UNPRINTABLE_PATH,
+    CaptureSetup,
     LoadedChecklist,
     LoadedMachine,
     LoadedVisit,
@@ -53,6 +54,7 @@ def _parse_reading(item: ChecklistItem, checklist_id: str, element: str | None, 
     extras: dict[str, Quantity] = {}
     range_holder: list[Quantity] = []
     capture_holder: list[Any] = []
+    setup_holder: list[CaptureSetup | None] = []
     instrument = visit.model.default_instrument if item.record == "quantity" else None
     note = None
     value_path = path
@@ -102,6 +104,8 @@ def _parse_reading(item: ChecklistItem, checklist_id: str, element: str | None, 
         elif raw.get("capture") is not None:
             capture_holder.append(_load_capture(raw["capture"], (*path, "capture"), visit,
                                                 problems))
+            setup_holder.append(_capture_setup(raw["capture"], (*path, "capture"), visit,
+                                               instruments, problems))
         if raw.get("range") is not None and item.unit:
             try:
                 extras_range = parse_quantity(raw["range"], unit_dimension(item.unit))
@@ -125,7 +129,8 @@ def _parse_reading(item: ChecklistItem, checklist_id: str, element: str | None, 
         checklist=checklist_id, item=item.id, element=element, instrument=instrument,
         extras=extras, note=note, file=document.display_name, line=line,
         range=range_holder[0] if range_holder else None,
-        capture=capture_holder[0] if capture_holder else None)
+        capture=capture_holder[0] if capture_holder else None,
+        capture_setup=setup_holder[0] if setup_holder else None)
     if value_raw is None or (isinstance(value_raw, str) and not value_raw.strip()):
         return Reading(value=None, not_applicable=False, **common)
     if isinstance(value_raw, str) and value_raw.strip().lower() in _NOT_APPLICABLE:
@@ -152,7 +157,51 @@ def _parse_reading(item: ChecklistItem, checklist_id: str, element: str | None, 
     return Reading(value=value, not_applicable=False, **common)
 
 
-_CAPTURE_KEYS = ("file", "channels", "voltage", "current", "time_column")
+_CAPTURE_KEYS = ("file", "channels", "voltage", "current", "time_column", "instrument",
+                 "probes")
+
+
+def _capture_setup(raw: Any, path: KeyPath, visit: LoadedVisit,
+                   instruments: dict[str, Instrument], problems: list[Problem]
+                   ) -> CaptureSetup | None:
+    """The scope and probes a capture names, checked against the register."""
+    from ..captures import parse_scaling
+
+    if not isinstance(raw, dict) or not isinstance(raw.get("channels"), dict):
+        return None  # reported by _load_capture
+    document = visit.document
+    scope = raw.get("instrument")
+    if scope is not None and (not isinstance(scope, str) or scope not in instruments):
+        problems.append(document.problem(
+            (*path, "instrument"), f"expected the scope's id from instruments.yaml, got "
+                                   f"{_got(scope) if not isinstance(scope, str) else repr(scope)}"
+                                   + (_suggest(scope, sorted(instruments))
+                                      if isinstance(scope, str) else "")))
+        scope = None
+    probes: dict[str, str] = {}
+    raw_probes = raw.get("probes")
+    if raw_probes is not None and not isinstance(raw_probes, dict):
+        problems.append(document.problem(
+            (*path, "probes"), "expected channel → probe id, e.g. {CH2: probe-1}"))
+    elif raw_probes:
+        for channel, probe in raw_probes.items():
+            if str(channel) not in {str(c) for c in raw["channels"]}:
+                problems.append(document.problem(
+                    (*path, "probes", channel), f"channel '{channel}' is not among the "
+                                                f"capture's channels"))
+            elif not isinstance(probe, str) or probe not in instruments:
+                problems.append(document.problem(
+                    (*path, "probes", channel), f"expected a probe id from instruments.yaml, "
+                                                f"got {probe!r}"))
+            else:
+                probes[str(channel)] = probe
+    factors: dict[str, float] = {}
+    for name, text in raw["channels"].items():
+        try:
+            factors[str(name)] = parse_scaling(str(text)).factor
+        except (ValueError, InputError):
+            pass  # reported by _load_capture
+    return CaptureSetup(scope, probes, factors)
 
 
 def _load_capture(raw: Any, path: KeyPath, visit: LoadedVisit, problems: list[Problem]) -> Any:

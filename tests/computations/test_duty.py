@@ -17,6 +17,7 @@ from acceptance.computations.duty import (
     assess_intermittent_duty,
     duty_cycle_from_times,
     equivalent_thermal_current,
+    nec_430_22_e_percent,
     nec_630_11_multiplier,
 )
 
@@ -143,3 +144,22 @@ def test_assessment_without_ratings():
     result = assess_intermittent_duty(40.0, 0.5)
     assert (result.conductor_adequate, result.device_not_below_equivalent,
             result.device_within_200_percent_of_ampacity) == (None, None, None)
+
+
+# NEC Table 430.22(E), percent of nameplate current by duty class and time rating [M]
+# (reference values §10).
+@pytest.mark.parametrize(("duty_class", "time_rating", "percent"), [
+    ("short-time", "5 min", 110), ("short-time", "15 min", 120), ("short-time", "60 min", 150),
+    ("intermittent", "5 min", 85), ("intermittent", "30 min", 90),
+    ("intermittent", "continuous", 140), ("periodic", "15 min", 90),
+    ("periodic", "continuous", 140), ("varying", "continuous", 200),
+])
+def test_nec_430_22_e_percentages(duty_class, time_rating, percent):
+    row = nec_430_22_e_percent(duty_class, time_rating)
+    assert row.percent == percent
+    assert row.clause == "430.22(E), Table 430.22(E)"
+
+
+def test_short_time_duty_has_no_continuous_rating():
+    with pytest.raises(ComputationError, match="no percentage"):
+        nec_430_22_e_percent("short-time", "continuous")

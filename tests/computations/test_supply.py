@@ -79,6 +79,30 @@ def test_ansi_c84_1_ranges(system, range_a, range_b, status):
     assert a.status == status and "Range A" in a.clause
 
 
+@pytest.mark.parametrize(("system", "range_a", "range_b"), [
+    # ANSI C84.1 Table 1, utilization voltage at the equipment's terminals: minimum below the
+    # service minimum, maximum shared (reference values §3) [M].
+    ("120", (108, 126), (104, 127)),
+    ("240", (216, 252), (208, 254)),
+    ("480", (432, 504), (416, 508)),
+    ("208Y/120", (187, 218), (180, 220)),
+])
+def test_ansi_c84_1_utilization_ranges_apply_at_the_machine(system, range_a, range_b):
+    a = ansi_c84_1_window(system, "A", location="utilization")
+    b = ansi_c84_1_window(system, "B", location="utilization")
+    assert ((a.lower, a.upper), (b.lower, b.upper)) == (range_a, range_b)
+    assert "utilization voltage" in a.clause
+    assert "service voltage" in ansi_c84_1_window(system, "A").clause
+
+
+def test_447_v_at_a_480_v_machine_is_inside_utilization_range_a():
+    # reference values §3: at the service point 447 V is outside Range A (456 V minimum); at
+    # the machine's terminals Range A's utilization minimum is 432 V [M].
+    assert ansi_c84_1_window(480, "A", location="utilization").contains(447.0)
+    with pytest.raises(ComputationError, match="location 'panel' must be"):
+        ansi_c84_1_window(480, "A", location="panel")
+
+
 def test_ansi_example_447_v_on_480_v():
     # reference values §3: 480 V nominal, 447 V measured → outside Range A, inside Range B [M]
     assert not ansi_c84_1_window(480, "A").contains(447.0)
@@ -287,8 +311,11 @@ def test_nema_derating_points(percent, factor):
 
 
 def test_nema_derating_interpolates_and_stops_at_5_percent():
-    # between 0.5 % (1.00) and 1.5 % (0.97): linear, 0.985 at 1 % (reference values §4) [S ±0.01]
-    assert nema_derating_factor(0.01).factor == pytest.approx(0.985, abs=1e-12)
+    # NEMA MG 1-2016 12.45 [M]: rated load up to 1 % unbalance, so no derating at 1 %; between
+    # 1 % (1.00) and 1.5 % (0.97) linear: 0.982 at 1.3 % (reference values §4) [S ±0.01].
+    assert nema_derating_factor(0.01).factor == 1.0
+    assert "rated load up to 1 % unbalance" in nema_derating_factor(0.009).note
+    assert nema_derating_factor(0.013).factor == pytest.approx(0.982, abs=1e-12)
     beyond = nema_derating_factor(0.06)
     assert (beyond.factor, beyond.advised) == (None, False)
     assert beyond.note == "unbalance 6.00 % is above 5 %: operation is not advised"
