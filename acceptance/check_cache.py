@@ -33,7 +33,7 @@ from .resources import checklists_dir
 
 __all__ = ["CheckCache", "Fingerprint", "fingerprint", "open_cache"]
 
-FORMAT = 2
+FORMAT = 3
 # loading.loaded.MACHINES_DIR, not imported from there: that would load the model.
 MACHINES_DIR = "machines"
 
