@@ -19,6 +19,7 @@ always loaded and reported again.
 
 from __future__ import annotations
 
+import datetime as _dt
 import hashlib
 import json
 import os
@@ -32,7 +33,7 @@ from .resources import checklists_dir
 
 __all__ = ["CheckCache", "Fingerprint", "fingerprint", "open_cache"]
 
-FORMAT = 2
+FORMAT = 3
 # loading.loaded.MACHINES_DIR, not imported from there: that would load the model.
 MACHINES_DIR = "machines"
 
@@ -77,6 +78,12 @@ def fingerprint(job: Path) -> Fingerprint | None:
     """Digest the job's inputs; None when a file cannot be read (let ``check`` report it)."""
     job = Path(job)
     digest = hashlib.sha256(f"acceptance {__version__}\n".encode())
+    # A deficiency becomes overdue as the days pass: the date it is judged against is an
+    # input (evaluation.punch_list.build_date, repeated here to keep pydantic out).
+    epoch = os.environ.get("SOURCE_DATE_EPOCH", "")
+    today = (_dt.datetime.fromtimestamp(int(epoch), _dt.UTC) if epoch.isdigit()
+             else _dt.datetime.now(_dt.UTC)).date()
+    digest.update(f"as of {today.isoformat()}\n".encode())
     package = Path(__file__).resolve().parent
     try:
         # The code is an input too: an edited checkout must not print a stale result.

@@ -30,7 +30,8 @@ __all__ = [
     "CompareAdjustment", "CompareSpec", "Conductor", "PartReplaced",
     "Instrument",
     "InstrumentRegister", "JobFile", "LimitOverride", "MachineFile", "Nameplate",
-    "ProtectiveDevice", "SignOff", "Source", "StandardInForce", "SupplyCable", "SurveyPoint",
+    "ProtectiveDevice", "PunchEntry", "PunchListFile", "SignOff", "Source",
+    "StandardInForce", "SupplyCable", "SurveyPoint",
     "VisitFile", "VisitKind", "WindingSpec", "Attachment", "parse_date", "ELEMENT_KINDS",
 ]
 
@@ -532,3 +533,46 @@ class VisitFile(_Strict):
     notes: str | None = Field(None, description="Markdown")
     attachments: list[Attachment] = Field(default_factory=list)
     sign_off: list[SignOff] = Field(default_factory=list)
+
+
+# ---------------------------------------------------------------- the punch list
+
+
+class AcceptedException(_Strict):
+    """The client accepts a deficiency as it stands (a concession): who, when, why, until."""
+
+    by: str = Field(description="who accepted it for the client, e.g. 'J. Doe (client)'")
+    date: Date
+    reason: str
+    until: Date | None = Field(None, description="the date the acceptance runs out, if any")
+
+
+class PunchEntry(_Strict):
+    """What the supervisor adds to one deficiency, addressed by machine, item and point."""
+
+    machine: Identifier
+    item: str = Field(pattern=r"^[a-z0-9][a-z0-9_-]*\.[a-z0-9][a-z0-9_-]*$",
+                      description="checklist.item, e.g. 'electrical.insulation'")
+    point: str | None = Field(None, description="the element (winding, capacitor, point, "
+                                                "line) when the item has several")
+    owner: str | None = Field(None, description="who is to close it")
+    due: Date | None = None
+    note: str | None = Field(None, description="the status in a sentence")
+    accepted: AcceptedException | None = None
+
+
+class HandoverRoles(_Strict):
+    roles: list[str] = Field(
+        default_factory=list,
+        description="the sign-off roles the sign-off matrix shows, in order (default: every "
+                    "role the visits carry)")
+    required: list[str] = Field(
+        default_factory=list,
+        description="the roles a machine's latest visit must carry to be ready for handover")
+
+
+class PunchListFile(_Strict):
+    """``punch_list.yaml`` (optional): owners, due dates and accepted exceptions."""
+
+    handover: HandoverRoles = Field(default_factory=HandoverRoles)
+    entries: list[PunchEntry] = Field(default_factory=list)

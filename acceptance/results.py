@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import datetime as _dt
 from dataclasses import dataclass, field
+from enum import Enum
 from typing import TYPE_CHECKING, Any
 
 from .verdicts import ChangeClass, Severity, Verdict, VisitState, count_states, worst
@@ -20,7 +21,8 @@ if TYPE_CHECKING:  # numpy stays out of check's start-up unless a capture is att
     from .captures import CaptureAnalysis
 
 __all__ = [
-    "RESULTS_SCHEMA", "Change", "ChangeClass", "CheckResult", "CompareRule", "Deficiency",
+    "RESULTS_SCHEMA", "Acceptance", "Change", "DeficiencyState", "Handover", "PunchItem",
+    "ChangeClass", "CheckResult", "CompareRule", "Deficiency",
     "ElementResult", "Instrument", "InstrumentUse", "ItemResult", "ChecklistResult",
     "MachineResult", "JobResult", "NameplateRow", "Override", "PartReplacement", "Severity",
     "SignOff", "Step", "TrendPoint", "TrendSeries", "TrendTrace", "Verdict", "VisitResult",
@@ -215,6 +217,92 @@ class Deficiency:
     anchor: str  # the item's anchor on the visit's page
 
 
+class DeficiencyState(str, Enum):
+    """Where a deficiency stands on the punch list, followed over the machine's visits."""
+
+    OPEN = "open"  # raised and neither re-tested as a pass nor accepted
+    ACCEPTED = "accepted"  # open, but accepted by the client as an exception (a concession)
+    CLOSED = "closed"  # a later pass of the same item and point, as found or as left
+
+    @property
+    def slug(self) -> str:
+        return self.value
+
+    @property
+    def word(self) -> str:
+        return {"accepted": "accepted exception"}.get(self.value, self.value)
+
+    @property
+    def mark(self) -> str:
+        return _DEFICIENCY_MARKS[self]
+
+
+# Open first, then accepted, then closed: the order of the punch list.
+_DEFICIENCY_MARKS: dict[DeficiencyState, str] = {
+    DeficiencyState.OPEN: "☐",
+    DeficiencyState.ACCEPTED: "◩",
+    DeficiencyState.CLOSED: "☑",
+}
+
+
+@dataclass(frozen=True)
+class Acceptance:
+    """A deficiency the client accepts as an exception: who, when, why and until when."""
+
+    by: str
+    date: _dt.date
+    reason: str
+    until: _dt.date | None = None
+
+
+@dataclass(frozen=True)
+class PunchItem:
+    """One deficiency followed from the finding that raised it to the re-test that closed it.
+
+    Addressed by machine, item and point, which stay the same from build to build.
+    """
+
+    machine: str
+    item: str  # checklist.item
+    title: str
+    element: str | None
+    raised: Deficiency  # the finding that raised it (its visit, reading, verdict, severity)
+    state: DeficiencyState
+    latest: Verdict  # the point's verdict at the last visit that measured it
+    closed_by: str | None = None  # the visit whose pass closed it
+    closed_as_left: bool = False  # closed by that visit's as-left reading
+    closed_reading: str | None = None
+    failed_again: tuple[str, ...] = ()  # later visits that found it open again
+    owner: str | None = None
+    due: _dt.date | None = None
+    overdue: bool = False  # open, not accepted, and due before the build's date
+    note: str | None = None
+    acceptance: Acceptance | None = None
+
+    @property
+    def key(self) -> str:
+        """``machine/checklist.item[point]``: how the punch-list file names it."""
+        return f"{self.machine}/{self.item}" + (f"[{self.element}]" if self.element else "")
+
+    @property
+    def blocking(self) -> bool:
+        """Open and not accepted: holds up the handover."""
+        return self.state is DeficiencyState.OPEN
+
+
+@dataclass(frozen=True)
+class Handover:
+    """Whether a machine is ready to hand over, and why not."""
+
+    ready: bool
+    reasons: tuple[str, ...] = ()  # empty when ready
+    open: int = 0  # deficiencies open and not accepted
+    accepted: int = 0
+    closed: int = 0
+    # The sign-off roles each visit carries, in the job's order of roles.
+    sign_offs: tuple[tuple[str, tuple[str, ...]], ...] = ()
+
+
 @dataclass(frozen=True)
 class InstrumentUse:
     """An instrument used on a visit, with its calibration state on the visit's date."""
@@ -255,6 +343,8 @@ class VisitResult:
     deficiencies: tuple[Deficiency, ...] = ()  # open points as found, in checklist order
     as_left_deficiencies: tuple[Deficiency, ...] = ()  # open points of as_left (not in JSON)
     instrument_uses: tuple[InstrumentUse, ...] = ()  # by instrument id
+    # Deficiencies this visit raised that are still open (neither closed nor accepted).
+    open_deficiencies: int = 0
 
     @property
     def items(self) -> list[ItemResult]:
@@ -308,6 +398,8 @@ class MachineResult:
     visits: tuple[VisitResult, ...]
     baseline: str | None = None  # id of the visit later visits are compared with
     trends: tuple[TrendSeries, ...] = ()  # each compared item over the visits (not in JSON)
+    punch_list: tuple[PunchItem, ...] = ()  # open first, then accepted, then closed
+    handover: Handover | None = None
 
     @property
     def latest(self) -> VisitResult | None:
@@ -359,6 +451,27 @@ class JobResult:
     coverage_factor: float = 2.0
     # How many visits are in each state, every state listed (not in JSON, see Instrument).
     state_counts: tuple[tuple[VisitState, int], ...] = ()
+    build_date: _dt.date | None = None  # what "overdue" is judged against
+    sign_off_roles: tuple[str, ...] = ()  # the sign-off matrix's columns
+    required_roles: tuple[str, ...] = ()  # the roles a machine's latest visit needs
+
+    @property
+    def punch_counts(self) -> tuple[tuple[DeficiencyState, int], ...]:
+        """How many deficiencies are in each state, every state in its order."""
+        states = [p.state for m in self.machines for p in m.punch_list]
+        return tuple((state, states.count(state)) for state in DeficiencyState)
+
+    @property
+    def punch_owners(self) -> list[str]:
+        """Every owner the punch list names, sorted."""
+        return sorted({p.owner for m in self.machines for p in m.punch_list if p.owner})
+
+    @property
+    def punch_list(self) -> list[PunchItem]:
+        """Every machine's deficiencies: open first, then accepted, then closed."""
+        order = list(DeficiencyState)
+        return sorted((p for m in self.machines for p in m.punch_list),
+                      key=lambda p: order.index(p.state))
 
     @property
     def visits(self) -> list[VisitResult]:
@@ -487,6 +600,33 @@ def deficiency_to_json(deficiency: Deficiency) -> Json:
             "verdict": deficiency.verdict.value, "severity": deficiency.severity.value}
 
 
+def acceptance_to_json(acceptance: Acceptance | None) -> Json | None:
+    if acceptance is None:
+        return None
+    return {"by": acceptance.by, "date": acceptance.date.isoformat(),
+            "reason": acceptance.reason, "until": _date(acceptance.until)}
+
+
+def punch_item_to_json(item: PunchItem) -> Json:
+    return {
+        "item": item.item, "title": item.title, "element": item.element,
+        "state": item.state.value, "raised_by": item.raised.visit,
+        "raised_verdict": item.raised.verdict.value, "severity": item.raised.severity.value,
+        "latest": item.latest.value, "closed_by": item.closed_by,
+        "closed_as_left": item.closed_as_left, "failed_again": list(item.failed_again),
+        "owner": item.owner, "due": _date(item.due), "overdue": item.overdue,
+        "note": item.note, "acceptance": acceptance_to_json(item.acceptance),
+    }
+
+
+def handover_to_json(handover: Handover | None) -> Json | None:
+    if handover is None:
+        return None
+    return {"ready": handover.ready, "reasons": list(handover.reasons),
+            "open": handover.open, "accepted": handover.accepted, "closed": handover.closed,
+            "sign_offs": {visit: list(roles) for visit, roles in handover.sign_offs}}
+
+
 def instrument_use_to_json(use: InstrumentUse) -> Json:
     return {"instrument": use.instrument, "calibration": use.state, "valid": use.valid}
 
@@ -519,6 +659,8 @@ def machine_to_json(machine: MachineResult) -> Json:
         "nameplate": {row.label: row.text for row in machine.nameplate}, "visits": visits,
         "baseline": machine.baseline,
         "latest_state": visits[-1]["state"] if visits else None,
+        "punch_list": [punch_item_to_json(p) for p in machine.punch_list],
+        "handover": handover_to_json(machine.handover),
     }
 
 

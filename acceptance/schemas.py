@@ -7,7 +7,14 @@ from typing import Any
 
 from pydantic import BaseModel
 
-from .model import Checklist, InstrumentRegister, JobFile, MachineFile, VisitFile
+from .model import (
+    Checklist,
+    InstrumentRegister,
+    JobFile,
+    MachineFile,
+    PunchListFile,
+    VisitFile,
+)
 from .signature_records import SignatureFile
 
 __all__ = ["FILE_KINDS", "schema_documents", "schema_text"]
@@ -18,6 +25,7 @@ FILE_KINDS: dict[str, tuple[type[BaseModel], str]] = {
     "machine": (MachineFile, "machines/<id>/machine.yaml"),
     "visit": (VisitFile, "machines/<id>/visits/<visit>.yaml"),
     "checklist": (Checklist, "checklists/<id>.yaml"),
+    "punch-list": (PunchListFile, "punch_list.yaml"),
     # Written by ``acceptance sign``, never by hand; the schema lets other tools read them.
     "signature": (SignatureFile, "machines/<id>/signatures/<visit>.yaml"),
 }

@@ -115,5 +115,5 @@ def _review_files(result: JobResult, signatures: dict[str, SignatureStatus]
                   ) -> dict[str, bytes]:
     """The index filters' data and the punch list as CSV (acceptance.rendering.review)."""
     return {INDEX_DATA_NAME: index_data_script(result).encode(),
-            DEFICIENCIES_CSV_NAME: deficiencies_csv(result.deficiencies, result,
+            DEFICIENCIES_CSV_NAME: deficiencies_csv(result.punch_list, result,
                                                     signatures).encode()}

@@ -15,7 +15,7 @@ def plan_site(result: JobResult) -> list[SitePage]:
                  {"visit_total": len(result.visits), "results_schema": RESULTS_SCHEMA}),
         SitePage("instruments.html", "instruments.html", {}),
         SitePage("deficiencies.html", "deficiencies.html",
-                 {"deficiencies": result.deficiencies}),
+                 {"deficiencies": result.punch_list}),
     ]
     for machine in result.machines:
         base = f"machines/{machine.id}"

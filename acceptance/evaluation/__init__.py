@@ -7,6 +7,7 @@ call :func:`evaluate_job` and get the same verdicts for the same inputs.
 from __future__ import annotations
 
 import dataclasses
+import datetime as _dt
 from collections import Counter
 from collections.abc import Sequence
 
@@ -42,6 +43,7 @@ from ..results import (
     NameplateRow,
     Override,
     PartReplacement,
+    PunchItem,
     SignOff,
     Verdict,
     VisitResult,
@@ -58,7 +60,16 @@ from .instruments import (
     instrument_findings,
     reading_uncertainty,
 )
-from .punch_list import deficiencies, open_required
+from .punch_list import (
+    build_date,
+    deficiencies,
+    entries_by_key,
+    handover,
+    open_required,
+    punch_list,
+    sign_off_roles,
+    unmatched,
+)
 from .register import instrument_entries, instrument_uses
 from .registry import RULES
 from .rules import Context, Outcome, _captured_current
@@ -397,14 +408,28 @@ def _nameplate_summary(machine: LoadedMachine) -> tuple[NameplateRow, ...]:
     return tuple(NameplateRow(label, text) for label, text in summary.items())
 
 
-def evaluate_job(job: Job) -> JobResult:
-    """Evaluate every visit of every machine. Pure and deterministic."""
+def _with_punch_list(machine: MachineResult, items: tuple[PunchItem, ...]) -> MachineResult:
+    """The machine with its punch list, each visit counting what it raised that is open."""
+    visits = tuple(dataclasses.replace(visit, open_deficiencies=sum(
+        1 for p in items if p.blocking and p.raised.visit == visit.id)) for visit in machine.visits)
+    return dataclasses.replace(machine, visits=visits, punch_list=items)
+
+
+def evaluate_job(job: Job, today: _dt.date | None = None) -> JobResult:
+    """Evaluate every visit of every machine. Deterministic for a given ``today``, the date
+    overdue deficiencies are judged against (default: :func:`build_date`)."""
+    today = today or build_date()
+    entries = entries_by_key(job.punch_list)
+    required = tuple(job.punch_list.handover.required) if job.punch_list else ()
     machines = tuple(
         _with_history(MachineResult(id=m.id, name=m.model.name, kind=m.model.kind,
                                     area=m.model.area, nameplate=_nameplate_summary(m),
                                     visits=tuple(_evaluate_visit(v, job, m) for v in m.visits)),
                       m.model.baseline)
         for m in job.machines)
+    machines = tuple(_with_punch_list(m, punch_list(m, entries, today)) for m in machines)
+    unmatched(job.punch_list, job.punch_list_document, machines)
+    machines = tuple(dataclasses.replace(m, handover=handover(m, required)) for m in machines)
     overrides = tuple(Override(item=o.item, check=o.check, reason=o.reason,
                                source=o.source.describe(),
                                params=", ".join(f"{k} = {v}" for k, v in o.params.items()))
@@ -418,4 +443,6 @@ def evaluate_job(job: Job) -> JobResult:
         overrides=overrides, machines=machines, tool_version=__version__,
         instruments=instrument_entries(job.instruments, visits),
         decision_rule=job.model.decision_rule, coverage_factor=job.model.coverage_factor,
-        state_counts=count_states(visit.state for visit in visits))
+        state_counts=count_states(visit.state for visit in visits), build_date=today,
+        sign_off_roles=tuple(sign_off_roles(machines, job.punch_list)),
+        required_roles=required)

@@ -16,6 +16,7 @@ from ..model import (
     InstrumentRegister,
     JobFile,
     MachineFile,
+    PunchListFile,
     SurveyPoint,
     VisitFile,
     WindingSpec,
@@ -33,6 +34,7 @@ from .loaded import (
     MACHINES_DIR,
     MAX_MACHINES,
     MAX_VISITS_PER_MACHINE,
+    PUNCH_LIST_FILE,
     VISITS_DIR,
     Job,
     LoadedChecklist,
@@ -116,11 +118,53 @@ def load_job(root: Path, include_visits: bool = True,
     if job_model is not None and job_document is not None:
         _check_overrides(job_model, job_document, checklists, problems)
 
+    punch_document = punch_model = None
+    if (root / PUNCH_LIST_FILE).is_file():
+        punch_document = _load_document(root / PUNCH_LIST_FILE, root, problems)
+        punch_model = (_validate(PunchListFile, punch_document, problems)
+                       if punch_document else None)
+        if punch_model is not None and punch_document is not None:
+            _check_punch_list(punch_model, punch_document, root, checklists, problems)
+
     if problems or job_model is None or job_document is None:
         raise InputError(problems)
     return Job(root=root, document=job_document, model=job_model, instruments=instruments,
                instruments_document=instruments_document, checklists=checklists,
-               machines=loaded)
+               machines=loaded, punch_list=punch_model, punch_list_document=punch_document)
+
+
+def _check_punch_list(punch: PunchListFile, document: Document, root: Path,
+                      checklists: dict[str, LoadedChecklist], problems: list[Problem]) -> None:
+    """What the punch-list file names exists, and no deficiency is named twice. Whether an
+    entry matches a deficiency is known only once the visits are evaluated."""
+    machines = sorted(p.name for p in (root / MACHINES_DIR).iterdir()
+                      if p.is_dir()) if (root / MACHINES_DIR).is_dir() else []
+    seen: dict[tuple[str, str, str | None], int] = {}
+    for index, entry in enumerate(punch.entries):
+        if entry.machine not in machines:
+            problems.append(document.problem(
+                ("entries", index, "machine"),
+                f"no machine '{entry.machine}' in {MACHINES_DIR}/; name a machine folder"
+                f"{_suggest(entry.machine, machines)}"))
+        checklist, _, item = entry.item.partition(".")
+        if checklist not in checklists or checklists[checklist].item(item) is None:
+            known = [f"{c.id}.{i.id}" for c in checklists.values() for i in c.model.items]
+            problems.append(document.problem(
+                ("entries", index, "item"),
+                f"no checklist item '{entry.item}'; write checklist.item as the punch "
+                f"list shows it{_suggest(entry.item, known)}"))
+        key = (entry.machine, entry.item, entry.point)
+        if key in seen:
+            problems.append(document.problem(
+                ("entries", index),
+                f"this deficiency is already named by entry {seen[key] + 1}; "
+                "merge the two entries"))
+        seen.setdefault(key, index)
+        accepted = entry.accepted
+        if accepted is not None and accepted.until is not None and accepted.until < accepted.date:
+            problems.append(document.problem(
+                ("entries", index, "accepted", "until"),
+                "until is before the date it was accepted; check the dates"))
 
 
 def _check_accuracy(instrument: Instrument, index: int, document: Document,

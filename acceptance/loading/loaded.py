@@ -14,6 +14,7 @@ from ..model import (
     JobFile,
     MachineFile,
     Nameplate,
+    PunchListFile,
     VisitFile,
 )
 from ..units import Dimension, Quantity
@@ -22,6 +23,7 @@ from ..yamlfile import Document
 
 JOB_FILE = "job.yaml"
 INSTRUMENTS_FILE = "instruments.yaml"
+PUNCH_LIST_FILE = "punch_list.yaml"
 MACHINES_DIR = "machines"
 VISITS_DIR = "visits"
 MAX_MACHINES = 2000
@@ -116,6 +118,9 @@ class Job:
     instruments_document: Document | None
     checklists: dict[str, LoadedChecklist]
     machines: list[LoadedMachine]
+    # punch_list.yaml, when the job has one: owners, due dates, accepted exceptions.
+    punch_list: PunchListFile | None = None
+    punch_list_document: Document | None = None
 
 
 # ------------------------------------------------------------------ helpers

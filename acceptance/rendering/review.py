@@ -15,7 +15,7 @@ from collections.abc import Iterable, Mapping
 from typing import Any
 
 from ..integrity import SignatureStatus
-from ..results import Deficiency, JobResult, VisitResult
+from ..results import JobResult, PunchItem, VisitResult
 
 __all__ = ["INDEX_DATA_NAME", "DEFICIENCIES_CSV_NAME", "index_options", "index_data_script",
            "deficiencies_csv", "review_globals", "verdict_counts"]
@@ -23,8 +23,10 @@ __all__ = ["INDEX_DATA_NAME", "DEFICIENCIES_CSV_NAME", "index_options", "index_d
 INDEX_DATA_NAME = "assets/index-data.js"
 DEFICIENCIES_CSV_NAME = "deficiencies.csv"
 
-_CSV_COLUMNS = ("machine", "machine_name", "area", "visit", "date", "item", "title", "point",
-                "reading", "verdict", "severity", "signature", "link")
+_CSV_COLUMNS = ("state", "machine", "machine_name", "area", "visit", "date", "item", "title",
+                "point", "reading", "verdict", "severity", "signature", "owner", "due",
+                "overdue", "closed_by", "closed_reading", "accepted_by", "accepted_on",
+                "accepted_until", "accepted_reason", "note", "link")
 
 
 def index_options(result: JobResult) -> dict[str, Any]:
@@ -62,22 +64,31 @@ def verdict_counts(counts: Mapping[str, int]) -> list[tuple[str, int]]:
     return [(word, count) for word, count in counts.items() if count]
 
 
-def deficiencies_csv(rows: Iterable[Deficiency], result: JobResult,
+def deficiencies_csv(rows: Iterable[PunchItem], result: JobResult,
                      signatures: Mapping[str, Any] | None = None) -> str:
-    """The punch list as CSV with a header row (RFC 4180), one line per open point."""
+    """The punch list as CSV with a header row (RFC 4180), one line per deficiency in the
+    punch list's order (open, accepted, closed); visit, date, reading and verdict are those
+    of the finding that raised it."""
     machines = {m.id: m for m in result.machines}
     dates = {(v.machine, v.id): v.date.isoformat() for v in result.visits}
     buffer = io.StringIO()
     writer = csv.writer(buffer, lineterminator="\r\n")
     writer.writerow(_CSV_COLUMNS)
-    for row in rows:
+    for item in rows:
+        row = item.raised
         machine = machines[row.machine]
         status = (signatures or {}).get(f"{row.machine}/{row.visit}")
+        accepted = item.acceptance
         writer.writerow([
-            row.machine, machine.name, machine.area or "", row.visit,
+            item.state.value, row.machine, machine.name, machine.area or "", row.visit,
             dates[(row.machine, row.visit)], row.item, row.title, row.element or "",
             row.reading or "", row.verdict.word, row.severity.value,
             status.phrase if status is not None else "not signed",
+            item.owner or "", item.due.isoformat() if item.due else "",
+            "yes" if item.overdue else "", item.closed_by or "", item.closed_reading or "",
+            accepted.by if accepted else "", accepted.date.isoformat() if accepted else "",
+            accepted.until.isoformat() if accepted and accepted.until else "",
+            accepted.reason if accepted else "", item.note or "",
             f"machines/{row.machine}/{row.visit}.html#{row.anchor}"])
     return buffer.getvalue()
 
