@@ -38,11 +38,11 @@ from .loaded import (
     LoadedChecklist,
     LoadedMachine,
     LoadedVisit,
-    _resolve,
     _shown,
     _suggest,
     _unprintable,
     _UnreadRegister,
+    confine,
     unit_dimension,
 )
 from .readings import _parse_readings
@@ -196,6 +196,10 @@ def _load_machines(root: Path, checklists: dict[str, LoadedChecklist],
         folders = [folder for folder in folders if folder.name in only]
     machines: list[LoadedMachine] = []
     for folder in folders:
+        outside = confine(folder, root, "job folder").reason
+        if outside is not None:
+            problems.append(Problem(_display(folder, root), 1, 1, "", outside))
+            continue
         machine_path = folder / "machine.yaml"
         if not machine_path.is_file():
             problems.append(Problem(_display(machine_path, root), 1, 1, "",
@@ -388,7 +392,6 @@ def _check_visit_alone(path: Path, machine_folder: Path, root: Path,
 
 def _check_attachments(visit: LoadedVisit, machine_folder: Path,
                        problems: list[Problem]) -> None:
-    folder = machine_folder.resolve()
     for index, attachment in enumerate(visit.model.attachments):
         path: KeyPath = ("attachments", index, "path")
         candidate = Path(attachment.path)
@@ -400,14 +403,13 @@ def _check_attachments(visit: LoadedVisit, machine_folder: Path,
                 path, f"'{attachment.path}' leaves the machine folder; attachments must sit "
                       "inside it (write a path relative to the machine folder)"))
             continue
-        resolved, unreadable = _resolve(machine_folder, candidate)
-        if unreadable:
+        resolved, reason, outside = confine(machine_folder / candidate, machine_folder,
+                                            "machine folder")
+        if reason and not outside:
             problems.append(visit.document.problem(
-                path, f"attachment '{_shown(attachment.path)}' {unreadable}"))
-        elif not resolved.is_relative_to(folder):
-            problems.append(visit.document.problem(
-                path, f"'{attachment.path}' resolves outside the machine folder (a link?); "
-                      "copy the file into the machine folder"))
+                path, f"attachment '{_shown(attachment.path)}' {reason}"))
+        elif reason:
+            problems.append(visit.document.problem(path, f"'{attachment.path}' {reason}"))
         elif not resolved.is_file():
             problems.append(visit.document.problem(
                 path, f"attachment '{attachment.path}' not found in {machine_folder.name}/"))

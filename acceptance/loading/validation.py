@@ -12,7 +12,7 @@ from pydantic import BaseModel, ValidationError
 
 from ..errors import InputError, Problem
 from ..yamlfile import Document, load_yaml
-from .loaded import _suggest
+from .loaded import _suggest, confine
 
 
 def _unwrap(annotation: Any) -> Any:
@@ -145,7 +145,13 @@ def _validate(model: type[BaseModel], document: Document, problems: list[Problem
         return None
 
 
-def _load_document(path: Path, root: Path, problems: list[Problem]) -> Document | None:
+def _load_document(path: Path, root: Path, problems: list[Problem],
+                   bound_name: str = "job folder") -> Document | None:
+    """Read one YAML file under ``root``, confined to it (see :func:`confine`)."""
+    confined = confine(path, root, bound_name)
+    if confined.reason is not None:
+        problems.append(Problem(_display(path, root), 1, 1, "", confined.reason))
+        return None
     try:
         return load_yaml(path, display_name=_display(path, root))
     except InputError as error:
