@@ -15,6 +15,7 @@ from enum import Enum
 from typing import Annotated, Any, Literal
 
 from pydantic import (
+    AfterValidator,
     BaseModel,
     ConfigDict,
     Field,
@@ -75,6 +76,26 @@ Ratio = Annotated[Quantity, _parsed(Dimension.RATIO), _described("5 %", Dimensio
 Length = Annotated[Quantity, _parsed(Dimension.LENGTH), _described("18 m", Dimension.LENGTH)]
 Area = Annotated[Quantity, _parsed(Dimension.AREA), _described("2.5 mm²", Dimension.AREA)]
 Power = Annotated[Quantity, _parsed(Dimension.POWER), _described("2.2 kW", Dimension.POWER)]
+
+
+
+def _positive(value: Quantity) -> Quantity:
+    """A rating, nominal, resistance, length, cross-section or frequency: above zero."""
+    if not value.value > 0:
+        raise ValueError(f"'{value.text}' must be greater than zero; write the value the "
+                         "nameplate or drawing states")
+    return value
+
+
+def _share(value: Quantity) -> Quantity:
+    """A duty cycle: a share of the cycle time, above 0 % and at most 100 %."""
+    if not 0 < value.in_unit("%") <= 100:
+        raise ValueError(f"'{value.text}' is not a duty cycle; write a share above 0 % and "
+                         "at most 100 %, e.g. 40 %")
+    return value
+
+
+Positive = AfterValidator(_positive)
 
 _DATE_RE = re.compile(r"^\d{4}-\d{2}-\d{2}$")
 
@@ -333,41 +354,43 @@ class WindingSpec(_Strict):
     thermal_class: Literal["90", "105", "120", "130", "155", "180", "200", "220", "250",
                            "Y", "A", "E", "B", "F", "H", "N", "R"] = Field(
         description="IEC 60085 thermal class, by number or letter")
-    resistance: Resistance | None = Field(None, description="manufacturer's value")
+    resistance: Annotated[Resistance, Positive] | None = Field(
+        None, description="manufacturer's value")
     resistance_tolerance: Ratio | None = None
     resistance_temperature: Temperature | None = Field(
         None, description="temperature the manufacturer's value is stated at")
-    rise_limit: TemperatureDifference | None = Field(
+    rise_limit: Annotated[TemperatureDifference, Positive] | None = Field(
         None, description="manufacturer's rise limit; default by thermal class")
 
 
 class CapacitorSpec(_Strict):
     id: Identifier
     name: str
-    nominal: Capacitance
+    nominal: Annotated[Capacitance, Positive]
     tolerance: str = Field(description="IEC 60062 letter (J, K, M, …) or '±5 %'")
-    rated_voltage: Voltage | None = None
-    working_voltage: Voltage | None = Field(None, description="peak voltage in service")
-    bleeder_resistance: Resistance | None = Field(
+    rated_voltage: Annotated[Voltage, Positive] | None = None
+    working_voltage: Annotated[Voltage, Positive] | None = Field(
+        None, description="peak voltage in service")
+    bleeder_resistance: Annotated[Resistance, Positive] | None = Field(
         None, description="discharge resistor across the capacitor, from the drawings")
 
 
 class ProtectiveDevice(_Strict):
     description: str
-    rating: Current
+    rating: Annotated[Current, Positive]
 
 
 class Conductor(_Strict):
     material: Literal["copper", "aluminium"] = "copper"
-    cross_section: Area
+    cross_section: Annotated[Area, Positive]
 
 
 class SupplyCable(Conductor):
-    length: Length
+    length: Annotated[Length, Positive]
     cores: int = Field(ge=1, le=7)
     conductor_class: Literal[1, 2, 5] = Field(
         2, description="IEC 60228 class: 1 solid, 2 stranded, 5 flexible")
-    ampacity: Current | None = Field(
+    ampacity: Annotated[Current, Positive] | None = Field(
         None, description="current-carrying capacity as installed (IEC 60364-5-52)")
     power_factor: float | None = Field(
         None, gt=0, le=1, description="cos φ of the load for the voltage drop; 1 if absent")
@@ -378,7 +401,8 @@ class BondingPoint(Conductor):
 
     id: Identifier
     name: str
-    length: Length = Field(description="length of the protective conductor path tested")
+    length: Annotated[Length, Positive] = Field(
+        description="length of the protective conductor path tested")
     conductor_class: Literal[1, 2, 5] | None = Field(
         2, description="IEC 60228 class of a copper conductor; null to use the resistivity")
 
@@ -391,14 +415,15 @@ class SurveyPoint(_Strict):
 
 
 class Nameplate(_Strict):
-    rated_voltage: Voltage
+    rated_voltage: Annotated[Voltage, Positive]
     phases: Literal[1, 3]
     neutral: bool = Field(False, description="a neutral conductor is connected")
-    frequency: Frequency | None = Field(None, description="absent for a d.c. supply")
-    rated_current: Current | None = None
+    frequency: Annotated[Frequency, Positive] | None = Field(
+        None, description="absent for a d.c. supply")
+    rated_current: Annotated[Current, Positive] | None = None
     rated_current_basis: Literal["rms", "average", "dc"] = "rms"
-    rated_power: Power | None = None
-    duty_cycle: Ratio | None = None
+    rated_power: Annotated[Power, Positive] | None = None
+    duty_cycle: Annotated[Ratio, AfterValidator(_share)] | None = None
     windings: list[WindingSpec] = Field(default_factory=list)
     capacitors: list[CapacitorSpec] = Field(default_factory=list)
     protective_device: ProtectiveDevice | None = None
