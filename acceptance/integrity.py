@@ -35,6 +35,7 @@ import yaml
 from pydantic import ValidationError
 
 from . import __version__
+from .clock import source_date_epoch
 from .errors import AcceptanceError, InputError
 from .loading import Job, LoadedMachine, LoadedVisit, load_job
 from .signature_records import (
@@ -282,9 +283,7 @@ def _statement(machine: str, visit: str, entry_name: str, role: str, signed_at: 
 
 def signed_at_now() -> str:
     """Now in UTC, or ``SOURCE_DATE_EPOCH`` when set (reproducible builds convention)."""
-    epoch = os.environ.get("SOURCE_DATE_EPOCH")
-    moment = (_dt.datetime.fromtimestamp(int(epoch), _dt.UTC) if epoch
-              else _dt.datetime.now(_dt.UTC))
+    moment = source_date_epoch() or _dt.datetime.now(_dt.UTC)
     return moment.replace(microsecond=0).strftime("%Y-%m-%dT%H:%M:%SZ")
 
 

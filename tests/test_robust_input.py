@@ -8,13 +8,17 @@ The exact messages of each refusal are cases of the bad-input corpus
 from __future__ import annotations
 
 import ast
+import datetime
 import shutil
 from pathlib import Path
 
 import pytest
 
+from acceptance import clock
+from acceptance.cli import main
 from acceptance.errors import InputError
 from acceptance.loading import load_job
+from acceptance.rendering.plots import TrendInput, trend_plot
 
 PACKAGE = Path(__file__).resolve().parent.parent / "acceptance"
 
@@ -76,3 +80,33 @@ def test_loading_resolves_paths_only_through_the_one_gate():
                             and call.func.attr == "resolve" and node.name != "confine"):
                         found.append(f"{module.name}:{node.name}")
     assert found == []
+
+
+# ------------------------------------------------------------------ dates and the clock
+
+
+@pytest.mark.parametrize("value", ["yesterday", "1.5e9", "-1", "99999999999999999999", "١٢٣"])
+def test_a_malformed_source_date_epoch_is_one_clear_error(make_job, tmp_path, monkeypatch,
+                                                          capsys, value):
+    root = make_job()
+    monkeypatch.setenv("SOURCE_DATE_EPOCH", value)
+    code = main(["build", "--no-pdf", str(root), "--output", str(tmp_path / "site")])
+    err = capsys.readouterr().err
+    assert code == 2
+    assert "Traceback" not in err
+    assert "SOURCE_DATE_EPOCH=" in err and "whole number of seconds since 1970-01-01 UTC" in err
+    assert not (tmp_path / "site").exists()
+
+
+def test_the_reproducible_builds_epoch_names_its_day(monkeypatch):
+    # [S] reproducible-builds.org, SOURCE_DATE_EPOCH specification: seconds since
+    # 1970-01-01 00:00:00 UTC; 1773100800 s = 20 521 days = 2026-03-10.
+    monkeypatch.setenv("SOURCE_DATE_EPOCH", "1773100800")
+    assert clock.today() == datetime.date(2026, 3, 10)
+
+
+@pytest.mark.parametrize("day", [datetime.date(9999, 12, 20), datetime.date(1, 1, 3)])
+def test_a_trend_near_the_ends_of_the_calendar_is_drawn(day):
+    points = [(datetime.date(2026, 3, 10), 10.0), (day, 11.0)]
+    plot = trend_plot([TrendInput("L1", points)], quantity="current", unit="A")
+    assert plot.x_ticks
