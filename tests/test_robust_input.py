@@ -14,7 +14,8 @@ from pathlib import Path
 
 import pytest
 
-from acceptance import clock
+from acceptance import clock, text
+from acceptance.build import build_site
 from acceptance.cli import main
 from acceptance.errors import InputError
 from acceptance.loading import load_job
@@ -110,3 +111,27 @@ def test_a_trend_near_the_ends_of_the_calendar_is_drawn(day):
     points = [(datetime.date(2026, 3, 10), 10.0), (day, 11.0)]
     plot = trend_plot([TrendInput("L1", points)], quantity="current", unit="A")
     assert plot.x_ticks
+
+
+# ------------------------------------------------------------------ text that acts
+
+
+def test_the_format_character_table_matches_unicode():
+    # [S] The Unicode Standard, UnicodeData.txt: general category Cf ("format"); the
+    # table in acceptance/text.py must hold every one the running Python knows.
+    import sys
+    import unicodedata
+    known = {c for c in range(sys.maxunicode + 1) if unicodedata.category(chr(c)) == "Cf"}
+    table = {c for low, high in text.FORMAT_RANGES for c in range(low, high + 1)}
+    assert known <= table
+    assert {c for c in table - known if unicodedata.category(chr(c)) != "Cn"} == set()
+
+
+def test_names_and_notes_show_direction_overrides_visibly(make_job, tmp_path):
+    root = make_job(machine={"name": "Press \u202eevil"},
+                    visit={"notes": "Checked by A.\u200bB."})
+    build_site(root, tmp_path / "site", with_pdf=False)
+    pages = "".join(p.read_text(encoding="utf-8") for p in (tmp_path / "site").rglob("*.html"))
+    assert "\u202e" not in pages and "\u200b" not in pages
+    assert "Press [U+202E]evil" in pages
+    assert "A.[U+200B]B." in pages

@@ -22,6 +22,7 @@ from ..model import (
 )
 from ..rule_specs import SPECS
 from ..signature_records import SIGNATURES_DIR, SignatureFile
+from ..text import describe_hidden
 from ..units import UnitError, parse_quantity
 from ..yamlfile import Document, KeyPath
 from .checklists import _bounds_order, _load_checklists, _voltage_item_problem
@@ -200,6 +201,11 @@ def _load_machines(root: Path, checklists: dict[str, LoadedChecklist],
         if outside is not None:
             problems.append(Problem(_display(folder, root), 1, 1, "", outside))
             continue
+        hidden = describe_hidden(folder.name)
+        if hidden is not None:  # the folder's name is the machine's id, refused as in files
+            problems.append(Problem(_display(folder, root), 1, 1, "",
+                                    f"the machine folder's name {hidden}"))
+            continue
         machine_path = folder / "machine.yaml"
         if not machine_path.is_file():
             problems.append(Problem(_display(machine_path, root), 1, 1, "",
@@ -225,6 +231,11 @@ def _load_machines(root: Path, checklists: dict[str, LoadedChecklist],
         machine = LoadedMachine(id=folder.name, folder=folder, document=document, model=model)
         _check_machine(machine, checklists, problems)
         for visit_path in visit_paths:
+            hidden = describe_hidden(visit_path.stem)
+            if hidden is not None:  # the file's name is the visit's id
+                problems.append(Problem(_display(visit_path, root), 1, 1, "",
+                                        f"the visit file's name {hidden}"))
+                continue
             visit_document = _load_document(visit_path, root, problems)
             visit_model = (_validate(VisitFile, visit_document, problems)
                            if visit_document else None)

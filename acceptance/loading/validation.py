@@ -11,6 +11,7 @@ from typing import Any
 from pydantic import BaseModel, ValidationError
 
 from ..errors import InputError, Problem
+from ..text import visible
 from ..yamlfile import Document, load_yaml
 from .loaded import _suggest, confine
 
@@ -160,7 +161,9 @@ def _load_document(path: Path, root: Path, problems: list[Problem],
 
 
 def _display(path: Path, root: Path) -> str:
+    """How a message names ``path``: from the job folder's name, invisible characters
+    spelt out (a direction override in a file name would turn the message around)."""
     try:
-        return str(path.relative_to(root.parent if root.parent != root else root))
+        return visible(str(path.relative_to(root.parent if root.parent != root else root)))
     except ValueError:
-        return str(path)
+        return visible(str(path))
