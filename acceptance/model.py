@@ -97,6 +97,12 @@ def _share(value: Quantity) -> Quantity:
 
 Positive = AfterValidator(_positive)
 
+# Lists of a visit are typed by hand: a crew and its sign-offs fit in 50 names, replaced
+# parts and attachments in 500 entries. Far beyond is a mistake or an attack, and every
+# page and PDF that lists them lays them out (README "Limits").
+MAX_PEOPLE_PER_VISIT = 50
+MAX_LIST_PER_VISIT = 500
+
 _DATE_RE = re.compile(r"^\d{4}-\d{2}-\d{2}$")
 
 
@@ -518,7 +524,7 @@ class VisitFile(_Strict):
 
     kind: VisitKind
     date: Date
-    performed_by: list[str] = Field(min_length=1)
+    performed_by: list[str] = Field(min_length=1, max_length=MAX_PEOPLE_PER_VISIT)
     default_instrument: Identifier | None = None
     conditions: Conditions = Field(default_factory=Conditions)
     readings: dict[str, dict[str, Any]] = Field(
@@ -530,7 +536,8 @@ class VisitFile(_Strict):
         description="readings after adjustment or repair on this visit, the same shape as "
                     "readings (which then hold the as-found values); later visits are "
                     "compared with the as-left values")
-    parts_replaced: list[PartReplaced] = Field(default_factory=list)
+    parts_replaced: list[PartReplaced] = Field(default_factory=list,
+                                               max_length=MAX_LIST_PER_VISIT)
     notes: str | None = Field(None, description="Markdown")
-    attachments: list[Attachment] = Field(default_factory=list)
-    sign_off: list[SignOff] = Field(default_factory=list)
+    attachments: list[Attachment] = Field(default_factory=list, max_length=MAX_LIST_PER_VISIT)
+    sign_off: list[SignOff] = Field(default_factory=list, max_length=MAX_PEOPLE_PER_VISIT)

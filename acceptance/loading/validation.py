@@ -106,6 +106,10 @@ def _validate(model: type[BaseModel], document: Document, problems: list[Problem
                            f"for example {loc[-1]}: [R. Name]" if loc and loc[-1] ==
                            "performed_by" else
                            f"needs at least {wanted} entr{'y' if wanted == 1 else 'ies'}")
+            elif kind == "too_long" and isinstance(detail.get("input"), list):
+                limit = detail.get("ctx", {}).get("max_length")
+                message = (f"{len(detail['input'])} entries; the limit is {limit}: keep the "
+                           "list to what the record needs (README, Limits)")
             elif kind in ("literal_error", "enum"):
                 expected = detail.get("ctx", {}).get("expected", "")
                 message = f"{detail['input']!r} is not allowed; use one of {expected}"
