@@ -8,7 +8,9 @@ The exact messages of each refusal are cases of the bad-input corpus
 from __future__ import annotations
 
 import ast
+import contextlib
 import datetime
+import io
 import shutil
 from pathlib import Path
 
@@ -20,6 +22,7 @@ from acceptance.cli import main
 from acceptance.errors import InputError
 from acceptance.loading import load_job
 from acceptance.rendering.plots import TrendInput, trend_plot
+from tests.test_bad_inputs import CASES, build_case
 
 PACKAGE = Path(__file__).resolve().parent.parent / "acceptance"
 
@@ -135,3 +138,27 @@ def test_names_and_notes_show_direction_overrides_visibly(make_job, tmp_path):
     assert "\u202e" not in pages and "\u200b" not in pages
     assert "Press [U+202E]evil" in pages
     assert "A.[U+200B]B." in pages
+
+
+# ------------------------------------------------------------------ no traceback, ever
+
+
+def _run(argv: list[str]) -> tuple[int, str, str]:
+    out, err = io.StringIO(), io.StringIO()
+    with contextlib.redirect_stdout(out), contextlib.redirect_stderr(err):
+        code = main(argv)
+    return code, out.getvalue(), err.getvalue()
+
+
+@pytest.mark.parametrize("case", CASES, ids=[f"{c['kind']}/{c['id']}" for c in CASES])
+def test_the_build_refuses_every_corpus_case_without_a_traceback(case, tmp_path):
+    """``check`` is run over the corpus by tests/test_bad_inputs.py; ``build`` must give
+    the same lines and exit code and write nothing."""
+    root = build_case(case, tmp_path / "job")
+    expected = [line.replace("{root}", str(root)) for line in case["expect"]]
+    code, out, err = _run(["build", "--no-pdf", str(root), "--output",
+                           str(tmp_path / "site")])
+    assert "Traceback" not in err
+    assert code == 2
+    assert err.splitlines() == expected
+    assert not (tmp_path / "site").exists()
