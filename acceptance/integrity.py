@@ -91,6 +91,13 @@ def _sha256(data: bytes) -> str:
     return hashlib.sha256(data).hexdigest()
 
 
+def _file_sha256(path: Path) -> str:
+    """The digest of a file read in blocks: an attachment may be far larger than memory
+    should hold at once."""
+    with path.open("rb") as handle:
+        return hashlib.file_digest(handle, "sha256").hexdigest()
+
+
 @dataclass(frozen=True)
 class SignedInput:
     """One input a visit's verdicts rest on, with its digest."""
@@ -152,7 +159,7 @@ def visit_inputs(job: Job, machine: LoadedMachine, visit: LoadedVisit) -> list[S
     files = {a.path for a in visit.model.attachments} | set(_capture_files(visit.document.data))
     for relative in sorted(files):
         path = machine.folder / relative
-        digest = _sha256(path.read_bytes()) if path.is_file() else "missing"
+        digest = _file_sha256(path) if path.is_file() else "missing"
         inputs.append(SignedInput(f"file:{relative}", path, digest,
                                   f"attached file {machine.id}/{relative}"))
     return inputs

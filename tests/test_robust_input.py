@@ -12,6 +12,7 @@ import contextlib
 import datetime
 import io
 import shutil
+import tracemalloc
 from pathlib import Path
 
 import pytest
@@ -20,7 +21,8 @@ from acceptance import clock, text
 from acceptance.build import build_site
 from acceptance.cli import main
 from acceptance.errors import InputError
-from acceptance.loading import load_job
+from acceptance.integrity import visit_inputs
+from acceptance.loading import load_job, loaded
 from acceptance.rendering.plots import TrendInput, trend_plot
 from tests.test_bad_inputs import CASES, build_case
 
@@ -162,3 +164,31 @@ def test_the_build_refuses_every_corpus_case_without_a_traceback(case, tmp_path)
     assert code == 2
     assert err.splitlines() == expected
     assert not (tmp_path / "site").exists()
+
+
+# ------------------------------------------------------------------ bounded cost
+
+
+def test_an_attachment_above_its_limit_is_refused_with_its_size(make_job, monkeypatch):
+    monkeypatch.setattr(loaded, "MAX_ATTACHMENT_BYTES", 1000)
+    root = make_job(visit={"attachments": [{"path": "photos/panel.jpg", "title": "Panel"}]},
+                    files={"machines/m1/photos/panel.jpg": "x" * 1001})
+    assert _messages(root) == [
+        "job/machines/m1/visits/v1.yaml: attachment 'photos/panel.jpg' is 1001 bytes; the "
+        "limit is 1000 bytes: attach a smaller copy (a reduced photo, the pages that matter)"]
+
+
+def test_an_attachment_is_hashed_in_blocks(make_job, tmp_path):
+    """Doubling an attachment does not double the memory its digest takes."""
+    peaks = []
+    for size in (8 << 20, 16 << 20):
+        root = make_job(visit={"attachments": [{"path": "photos/big.bin", "title": "Big"}]})
+        (root / "machines" / "m1" / "photos").mkdir(parents=True, exist_ok=True)
+        (root / "machines" / "m1" / "photos" / "big.bin").write_bytes(b"x" * size)
+        job = load_job(root)
+        machine = job.machines[0]
+        tracemalloc.start()
+        visit_inputs(job, machine, machine.visits[0])
+        peaks.append(tracemalloc.get_traced_memory()[1])
+        tracemalloc.stop()
+    assert peaks[1] < 2 << 20 and peaks[1] < 1.2 * peaks[0] + (256 << 10)

@@ -25,6 +25,7 @@ from ..signature_records import SIGNATURES_DIR, SignatureFile
 from ..text import describe_hidden
 from ..units import UnitError, parse_quantity
 from ..yamlfile import Document, KeyPath
+from . import loaded
 from .checklists import _bounds_order, _load_checklists, _voltage_item_problem
 from .loaded import (
     _UNPRINTABLE_PATH,
@@ -424,5 +425,10 @@ def _check_attachments(visit: LoadedVisit, machine_folder: Path,
         elif not resolved.is_file():
             problems.append(visit.document.problem(
                 path, f"attachment '{attachment.path}' not found in {machine_folder.name}/"))
+        elif (size := resolved.stat().st_size) > loaded.MAX_ATTACHMENT_BYTES:
+            problems.append(visit.document.problem(
+                path, f"attachment '{_shown(attachment.path)}' is {size} bytes; the limit is "
+                      f"{loaded.MAX_ATTACHMENT_BYTES} bytes: attach a smaller copy (a "
+                      "reduced photo, the pages that matter)"))
 
 

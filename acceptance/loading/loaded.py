@@ -26,6 +26,9 @@ MACHINES_DIR = "machines"
 VISITS_DIR = "visits"
 MAX_MACHINES = 2000
 MAX_VISITS_PER_MACHINE = 200
+# A photo, a data sheet or a drawing: far larger is a video or a disk image, which the site
+# would copy and every PDF build would hash (README "Limits").
+MAX_ATTACHMENT_BYTES = 100 * 1024 * 1024
 
 _UNVALIDATED: Any = None  # placeholder for an instrument whose entry has problems
 
