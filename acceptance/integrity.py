@@ -35,6 +35,7 @@ import yaml
 from pydantic import ValidationError
 
 from . import __version__
+from .clock import source_date_epoch
 from .errors import AcceptanceError, InputError
 from .loading import Job, LoadedMachine, LoadedVisit, load_job
 from .signature_records import (
@@ -88,6 +89,13 @@ def canonical_json(data: Any) -> bytes:
 
 def _sha256(data: bytes) -> str:
     return hashlib.sha256(data).hexdigest()
+
+
+def _file_sha256(path: Path) -> str:
+    """The digest of a file read in blocks: an attachment may be far larger than memory
+    should hold at once."""
+    with path.open("rb") as handle:
+        return hashlib.file_digest(handle, "sha256").hexdigest()
 
 
 @dataclass(frozen=True)
@@ -151,7 +159,7 @@ def visit_inputs(job: Job, machine: LoadedMachine, visit: LoadedVisit) -> list[S
     files = {a.path for a in visit.model.attachments} | set(_capture_files(visit.document.data))
     for relative in sorted(files):
         path = machine.folder / relative
-        digest = _sha256(path.read_bytes()) if path.is_file() else "missing"
+        digest = _file_sha256(path) if path.is_file() else "missing"
         inputs.append(SignedInput(f"file:{relative}", path, digest,
                                   f"attached file {machine.id}/{relative}"))
     return inputs
@@ -282,9 +290,7 @@ def _statement(machine: str, visit: str, entry_name: str, role: str, signed_at: 
 
 def signed_at_now() -> str:
     """Now in UTC, or ``SOURCE_DATE_EPOCH`` when set (reproducible builds convention)."""
-    epoch = os.environ.get("SOURCE_DATE_EPOCH")
-    moment = (_dt.datetime.fromtimestamp(int(epoch), _dt.UTC) if epoch
-              else _dt.datetime.now(_dt.UTC))
+    moment = source_date_epoch() or _dt.datetime.now(_dt.UTC)
     return moment.replace(microsecond=0).strftime("%Y-%m-%dT%H:%M:%SZ")
 
 

@@ -15,6 +15,7 @@ from enum import Enum
 from typing import Annotated, Any, Literal
 
 from pydantic import (
+    AfterValidator,
     BaseModel,
     ConfigDict,
     Field,
@@ -76,6 +77,32 @@ Ratio = Annotated[Quantity, _parsed(Dimension.RATIO), _described("5 %", Dimensio
 Length = Annotated[Quantity, _parsed(Dimension.LENGTH), _described("18 m", Dimension.LENGTH)]
 Area = Annotated[Quantity, _parsed(Dimension.AREA), _described("2.5 mm²", Dimension.AREA)]
 Power = Annotated[Quantity, _parsed(Dimension.POWER), _described("2.2 kW", Dimension.POWER)]
+
+
+
+def _positive(value: Quantity) -> Quantity:
+    """A rating, nominal, resistance, length, cross-section or frequency: above zero."""
+    if not value.value > 0:
+        raise ValueError(f"'{value.text}' must be greater than zero; write the value the "
+                         "nameplate or drawing states")
+    return value
+
+
+def _share(value: Quantity) -> Quantity:
+    """A duty cycle: a share of the cycle time, above 0 % and at most 100 %."""
+    if not 0 < value.in_unit("%") <= 100:
+        raise ValueError(f"'{value.text}' is not a duty cycle; write a share above 0 % and "
+                         "at most 100 %, e.g. 40 %")
+    return value
+
+
+Positive = AfterValidator(_positive)
+
+# Lists of a visit are typed by hand: a crew and its sign-offs fit in 50 names, replaced
+# parts and attachments in 500 entries. Far beyond is a mistake or an attack, and every
+# page and PDF that lists them lays them out (README "Limits").
+MAX_PEOPLE_PER_VISIT = 50
+MAX_LIST_PER_VISIT = 500
 
 _DATE_RE = re.compile(r"^\d{4}-\d{2}-\d{2}$")
 
@@ -334,11 +361,12 @@ class WindingSpec(_Strict):
     thermal_class: Literal["90", "105", "120", "130", "155", "180", "200", "220", "250",
                            "Y", "A", "E", "B", "F", "H", "N", "R"] = Field(
         description="IEC 60085 thermal class, by number or letter")
-    resistance: Resistance | None = Field(None, description="manufacturer's value")
+    resistance: Annotated[Resistance, Positive] | None = Field(
+        None, description="manufacturer's value")
     resistance_tolerance: Ratio | None = None
     resistance_temperature: Temperature | None = Field(
         None, description="temperature the manufacturer's value is stated at")
-    rise_limit: TemperatureDifference | None = Field(
+    rise_limit: Annotated[TemperatureDifference, Positive] | None = Field(
         None, description="manufacturer's rise limit; default by thermal class")
     kind: Literal["rotating_machine", "dc_coil", "transformer"] = Field(
         "rotating_machine",
@@ -357,11 +385,12 @@ class WindingSpec(_Strict):
 class CapacitorSpec(_Strict):
     id: Identifier
     name: str
-    nominal: Capacitance
+    nominal: Annotated[Capacitance, Positive]
     tolerance: str = Field(description="IEC 60062 letter (J, K, M, …) or '±5 %'")
-    rated_voltage: Voltage | None = None
-    working_voltage: Voltage | None = Field(None, description="peak voltage in service")
-    bleeder_resistance: Resistance | None = Field(
+    rated_voltage: Annotated[Voltage, Positive] | None = None
+    working_voltage: Annotated[Voltage, Positive] | None = Field(
+        None, description="peak voltage in service")
+    bleeder_resistance: Annotated[Resistance, Positive] | None = Field(
         None, description="discharge resistor across the capacitor, from the drawings")
     circuit: Literal["ac", "dc"] = Field(
         "ac", description="'ac' for a run or power-factor capacitor on the supply (the record "
@@ -371,20 +400,20 @@ class CapacitorSpec(_Strict):
 
 class ProtectiveDevice(_Strict):
     description: str
-    rating: Current
+    rating: Annotated[Current, Positive]
 
 
 class Conductor(_Strict):
     material: Literal["copper", "aluminium"] = "copper"
-    cross_section: Area
+    cross_section: Annotated[Area, Positive]
 
 
 class SupplyCable(Conductor):
-    length: Length
+    length: Annotated[Length, Positive]
     cores: int = Field(ge=1, le=7)
     conductor_class: Literal[1, 2, 5] = Field(
         2, description="IEC 60228 class: 1 solid, 2 stranded, 5 flexible")
-    ampacity: Current | None = Field(
+    ampacity: Annotated[Current, Positive] | None = Field(
         None, description="current-carrying capacity as installed (IEC 60364-5-52)")
     power_factor: float | None = Field(
         None, gt=0, le=1, description="cos φ of the load for the voltage drop; 1 if absent")
@@ -395,7 +424,8 @@ class BondingPoint(Conductor):
 
     id: Identifier
     name: str
-    length: Length = Field(description="length of the protective conductor path tested")
+    length: Annotated[Length, Positive] = Field(
+        description="length of the protective conductor path tested")
     conductor_class: Literal[1, 2, 5] | None = Field(
         2, description="IEC 60228 class of a copper conductor; null to use the resistivity")
 
@@ -408,14 +438,15 @@ class SurveyPoint(_Strict):
 
 
 class Nameplate(_Strict):
-    rated_voltage: Voltage
+    rated_voltage: Annotated[Voltage, Positive]
     phases: Literal[1, 3]
     neutral: bool = Field(False, description="a neutral conductor is connected")
-    frequency: Frequency | None = Field(None, description="absent for a d.c. supply")
-    rated_current: Current | None = None
+    frequency: Annotated[Frequency, Positive] | None = Field(
+        None, description="absent for a d.c. supply")
+    rated_current: Annotated[Current, Positive] | None = None
     rated_current_basis: Literal["rms", "average", "dc"] = "rms"
-    rated_power: Power | None = None
-    duty_cycle: Ratio | None = None
+    rated_power: Annotated[Power, Positive] | None = None
+    duty_cycle: Annotated[Ratio, AfterValidator(_share)] | None = None
     load_kind: Literal["motor", "arc welder", "motor-generator arc welder", "other"] | None = (
         Field(None, description="what the supply feeds: chooses the intermittent-duty rule "
                                 "(NEC 630.11(A) for welders, 430.22(E) for motors)"))
@@ -517,7 +548,7 @@ class VisitFile(_Strict):
 
     kind: VisitKind
     date: Date
-    performed_by: list[str] = Field(min_length=1)
+    performed_by: list[str] = Field(min_length=1, max_length=MAX_PEOPLE_PER_VISIT)
     default_instrument: Identifier | None = None
     conditions: Conditions = Field(default_factory=Conditions)
     readings: dict[str, dict[str, Any]] = Field(
@@ -529,10 +560,11 @@ class VisitFile(_Strict):
         description="readings after adjustment or repair on this visit, the same shape as "
                     "readings (which then hold the as-found values); later visits are "
                     "compared with the as-left values")
-    parts_replaced: list[PartReplaced] = Field(default_factory=list)
+    parts_replaced: list[PartReplaced] = Field(default_factory=list,
+                                               max_length=MAX_LIST_PER_VISIT)
     notes: str | None = Field(None, description="Markdown")
-    attachments: list[Attachment] = Field(default_factory=list)
-    sign_off: list[SignOff] = Field(default_factory=list)
+    attachments: list[Attachment] = Field(default_factory=list, max_length=MAX_LIST_PER_VISIT)
+    sign_off: list[SignOff] = Field(default_factory=list, max_length=MAX_PEOPLE_PER_VISIT)
 
 
 # ---------------------------------------------------------------- the punch list

@@ -333,6 +333,9 @@ def _parse_quantity(text: object, *expected: Dimension) -> Quantity:
     unit_text, basis = _split_qualifier(rest)
     if unit_text == "":
         if Dimension.NUMBER in expected:
+            if value == 0 and decimal.Decimal(match.group("number")) != 0:
+                raise UnitError(f"'{raw.strip()}' is too small to be told from zero; "
+                                "check the value")
             return Quantity(value, Dimension.NUMBER, "", basis, raw.strip())
         raise UnitError(
             f"'{raw.strip()}' has no unit; write it with a unit of "
@@ -383,7 +386,16 @@ def _parse_quantity(text: object, *expected: Dimension) -> Quantity:
     if abs(quantity_value) > 1e15:
         raise UnitError(f"'{raw.strip()}' is implausibly large for a {dimension.value}; "
                         "check the value and its unit")
+    if quantity_value != 0 and abs(quantity_value) < _SMALLEST or (
+            quantity_value == 0 and decimal.Decimal(match.group("number")) != 0):
+        raise UnitError(f"'{raw.strip()}' is implausibly small for a {dimension.value}; "
+                        "check the value and its unit")
     return Quantity(quantity_value, dimension, symbol, basis, raw.strip())
+
+
+# Below this, in the base unit, no value of an electrical acceptance check can be told from
+# zero (a femtofarad is 1e-15 F): a value such as '1e-400 V' underflows or is a typing slip.
+_SMALLEST = 1e-18
 
 
 def _scaled(number: str, factor: float) -> float:

@@ -108,9 +108,14 @@ class _NodeError(Exception):
 
 
 def _build(node: yaml.Node, path: KeyPath, marks: dict[KeyPath, tuple[int, int]],
-           problems: list[tuple[yaml.Node, KeyPath, str]], depth: int) -> Any:
+           problems: list[tuple[yaml.Node, KeyPath, str]], depth: int,
+           tagged: frozenset[tuple[int, int]] = frozenset()) -> Any:
     if depth > MAX_DEPTH:
         raise _NodeError(node, f"nesting deeper than {MAX_DEPTH} levels is not supported")
+    if (node.start_mark.line, node.start_mark.column) in tagged:
+        # Written by hand: a quoted or block scalar ('!!str "x"', '!x |') resolves to the
+        # string tag and '!!map {}' to the mapping tag, so the node's tag alone cannot tell.
+        raise _NodeError(node, f"YAML tag {node.tag!r} is not allowed; write a plain value")
     if isinstance(node, yaml.ScalarNode):
         return _scalar(node)
     if not isinstance(node, yaml.ScalarNode) and node.tag not in _PLAIN_TAGS[type(node)]:
@@ -120,7 +125,8 @@ def _build(node: yaml.Node, path: KeyPath, marks: dict[KeyPath, tuple[int, int]]
         for index, child in enumerate(node.value):
             marks[(*path, index)] = (child.start_mark.line + 1, child.start_mark.column + 1)
             try:
-                items.append(_build(child, (*path, index), marks, problems, depth + 1))
+                items.append(_build(child, (*path, index), marks, problems, depth + 1,
+                                    tagged))
             except _NodeError as error:
                 problems.append((error.node, (*path, index), error.message))
                 items.append(None)
@@ -139,6 +145,10 @@ def _build(node: yaml.Node, path: KeyPath, marks: dict[KeyPath, tuple[int, int]]
                 continue
             key = str(key_node.value)
             key_path = (*path, key)
+            if (key_node.start_mark.line, key_node.start_mark.column) in tagged:
+                problems.append((key_node, key_path, f"YAML tag {key_node.tag!r} is not "
+                                 "allowed; write a plain value"))
+                continue
             if key in first_seen:
                 problems.append((key_node, key_path,
                                  f"duplicate key '{key}' (first given on line "
@@ -147,7 +157,8 @@ def _build(node: yaml.Node, path: KeyPath, marks: dict[KeyPath, tuple[int, int]]
             first_seen[key] = key_node.start_mark.line + 1
             marks[key_path] = (key_node.start_mark.line + 1, key_node.start_mark.column + 1)
             try:
-                mapping[key] = _build(value_node, key_path, marks, problems, depth + 1)
+                mapping[key] = _build(value_node, key_path, marks, problems, depth + 1,
+                                      tagged)
             except _NodeError as error:
                 problems.append((error.node, key_path, error.message))
                 mapping[key] = None
@@ -224,6 +235,21 @@ _SYNTAX_HINTS: tuple[tuple[str, str], ...] = (
 )
 
 
+def _tag_marks(text: str) -> frozenset[tuple[int, int]]:
+    """Where a node with a tag written in ``text`` starts (its anchor, when it has one)."""
+    if "!" not in text:  # no tag can be written without one: most files are not scanned
+        return frozenset()
+    found: set[tuple[int, int]] = set()
+    previous = None
+    for token in yaml.scan(text, Loader=yaml.CSafeLoader if _LIBYAML else yaml.SafeLoader):
+        if isinstance(token, yaml.TagToken):
+            found.add((token.start_mark.line, token.start_mark.column))
+            if isinstance(previous, yaml.AnchorToken):
+                found.add((previous.start_mark.line, previous.start_mark.column))
+        previous = token
+    return frozenset(found)
+
+
 def load_yaml(path: Path, display_name: str | None = None,
               max_bytes: int = MAX_FILE_BYTES) -> Document:
     """Parse ``path``; raise :class:`InputError` listing every problem found."""
@@ -293,7 +319,7 @@ def load_yaml(path: Path, display_name: str | None = None,
                   "the value instead", token.start_mark.line + 1, token.start_mark.column + 1)
     marks: dict[KeyPath, tuple[int, int]] = {(): (1, 1)}
     problems: list[tuple[yaml.Node, KeyPath, str]] = []
-    data = None if node is None else _build(node, (), marks, problems, 0)
+    data = None if node is None else _build(node, (), marks, problems, 0, _tag_marks(text))
     if problems:
         raise InputError([
             Problem(name, n.start_mark.line + 1, n.start_mark.column + 1,

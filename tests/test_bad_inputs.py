@@ -74,6 +74,7 @@ def build_case(case: dict[str, Any], root: Path) -> Path:
             outside = root.parent / "outside.txt"
             outside.write_text("not part of the job\n", encoding="utf-8")
             target = str(outside)
+        path.unlink(missing_ok=True)  # a link may replace a file of the small job
         path.symlink_to(target)
     for target, size in (case.get("pad") or {}).items():
         path = root / _FILES.get(target, target)

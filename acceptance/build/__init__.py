@@ -11,6 +11,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
+from ..clock import source_date_epoch
 from ..evaluation import evaluate_job
 from ..loading import load_job
 from .context import MANIFEST_NAME, BuildContext, BuildReport, Progress, SitePage
@@ -36,6 +37,7 @@ def build_site(job_root: Path, output: Path, with_pdf: bool = True,
     nothing at all.
     """
     job_root, output = Path(job_root), Path(output)
+    source_date_epoch()  # a malformed value is refused before anything is read or written
     job = load_job(job_root)  # raises InputError before anything is written
     result = evaluate_job(job)
     check_output(output, job_root)

@@ -26,7 +26,8 @@ def _load_checklists(root: Path, problems: list[Problem]) -> dict[str, LoadedChe
     if local.is_dir():
         sources += [(p, _display(p, root)) for p in sorted(local.glob("*.yaml"))]
     for path, origin in sources:
-        document = _load_document(path, path.parent if origin == "built-in" else root, problems)
+        document = (_load_document(path, path.parent, problems, "built-in checklists folder")
+                    if origin == "built-in" else _load_document(path, root, problems))
         if document is None:
             continue
         model = _validate(Checklist, document, problems)

@@ -23,8 +23,10 @@ from ..model import (
 )
 from ..rule_specs import SPECS
 from ..signature_records import SIGNATURES_DIR, SignatureFile
+from ..text import describe_hidden
 from ..units import UnitError, parse_quantity
 from ..yamlfile import Document, KeyPath
+from . import loaded
 from .checklists import _bounds_order, _load_checklists, _voltage_item_problem
 from .loaded import (
     _UNPRINTABLE_PATH,
@@ -40,11 +42,11 @@ from .loaded import (
     LoadedChecklist,
     LoadedMachine,
     LoadedVisit,
-    _resolve,
     _shown,
     _suggest,
     _unprintable,
     _UnreadRegister,
+    confine,
     unit_dimension,
 )
 from .readings import _parse_readings
@@ -240,6 +242,15 @@ def _load_machines(root: Path, checklists: dict[str, LoadedChecklist],
         folders = [folder for folder in folders if folder.name in only]
     machines: list[LoadedMachine] = []
     for folder in folders:
+        outside = confine(folder, root, "job folder").reason
+        if outside is not None:
+            problems.append(Problem(_display(folder, root), 1, 1, "", outside))
+            continue
+        hidden = describe_hidden(folder.name)
+        if hidden is not None:  # the folder's name is the machine's id, refused as in files
+            problems.append(Problem(_display(folder, root), 1, 1, "",
+                                    f"the machine folder's name {hidden}"))
+            continue
         machine_path = folder / "machine.yaml"
         if not machine_path.is_file():
             problems.append(Problem(_display(machine_path, root), 1, 1, "",
@@ -265,6 +276,11 @@ def _load_machines(root: Path, checklists: dict[str, LoadedChecklist],
         machine = LoadedMachine(id=folder.name, folder=folder, document=document, model=model)
         _check_machine(machine, checklists, problems)
         for visit_path in visit_paths:
+            hidden = describe_hidden(visit_path.stem)
+            if hidden is not None:  # the file's name is the visit's id
+                problems.append(Problem(_display(visit_path, root), 1, 1, "",
+                                        f"the visit file's name {hidden}"))
+                continue
             visit_document = _load_document(visit_path, root, problems)
             visit_model = (_validate(VisitFile, visit_document, problems)
                            if visit_document else None)
@@ -432,7 +448,6 @@ def _check_visit_alone(path: Path, machine_folder: Path, root: Path,
 
 def _check_attachments(visit: LoadedVisit, machine_folder: Path,
                        problems: list[Problem]) -> None:
-    folder = machine_folder.resolve()
     for index, attachment in enumerate(visit.model.attachments):
         path: KeyPath = ("attachments", index, "path")
         candidate = Path(attachment.path)
@@ -444,16 +459,20 @@ def _check_attachments(visit: LoadedVisit, machine_folder: Path,
                 path, f"'{attachment.path}' leaves the machine folder; attachments must sit "
                       "inside it (write a path relative to the machine folder)"))
             continue
-        resolved, unreadable = _resolve(machine_folder, candidate)
-        if unreadable:
+        resolved, reason, outside = confine(machine_folder / candidate, machine_folder,
+                                            "machine folder")
+        if reason and not outside:
             problems.append(visit.document.problem(
-                path, f"attachment '{_shown(attachment.path)}' {unreadable}"))
-        elif not resolved.is_relative_to(folder):
-            problems.append(visit.document.problem(
-                path, f"'{attachment.path}' resolves outside the machine folder (a link?); "
-                      "copy the file into the machine folder"))
+                path, f"attachment '{_shown(attachment.path)}' {reason}"))
+        elif reason:
+            problems.append(visit.document.problem(path, f"'{attachment.path}' {reason}"))
         elif not resolved.is_file():
             problems.append(visit.document.problem(
                 path, f"attachment '{attachment.path}' not found in {machine_folder.name}/"))
+        elif (size := resolved.stat().st_size) > loaded.MAX_ATTACHMENT_BYTES:
+            problems.append(visit.document.problem(
+                path, f"attachment '{_shown(attachment.path)}' is {size} bytes; the limit is "
+                      f"{loaded.MAX_ATTACHMENT_BYTES} bytes: attach a smaller copy (a "
+                      "reduced photo, the pages that matter)"))
 
 

@@ -5,7 +5,7 @@ from __future__ import annotations
 import difflib
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any
+from typing import Any, NamedTuple
 
 from ..model import (
     Checklist,
@@ -28,6 +28,9 @@ MACHINES_DIR = "machines"
 VISITS_DIR = "visits"
 MAX_MACHINES = 2000
 MAX_VISITS_PER_MACHINE = 200
+# A photo, a data sheet or a drawing: far larger is a video or a disk image, which the site
+# would copy and every PDF build would hash (README "Limits").
+MAX_ATTACHMENT_BYTES = 100 * 1024 * 1024
 
 _UNVALIDATED: Any = None  # placeholder for an instrument whose entry has problems
 
@@ -163,14 +166,35 @@ def _suggest(word: str, known: list[str]) -> str:
         return "; known: " + ", ".join(known)
     return ""
 
-def _resolve(folder: Path, relative: Path) -> tuple[Path, str | None]:
-    """``folder / relative`` with links resolved, or why the system cannot look it up."""
+class Confined(NamedTuple):
+    """A path the tool may read (``reason`` None), or why it may not."""
+
+    path: Path
+    reason: str | None
+    outside: bool = False
+
+
+def confine(path: Path, bound: Path, bound_name: str) -> Confined:
+    """``path`` with every link resolved, refused unless it stays inside ``bound``.
+
+    The one gate of every file the tool reads — the job file, the register, checklists,
+    machine folders, visits, signature records, attachments and captures: a symbolic link
+    may point anywhere, and what it reaches would be copied into the site and the PDFs as
+    if it were part of the job. ``bound_name`` names ``bound`` in the reason ("job folder",
+    "machine folder"). A link that stays inside is followed.
+    """
     try:
-        resolved = (folder / relative).resolve()
+        resolved = path.resolve()
         resolved.is_file()  # a name too long for the file system fails here, not above
-    except OSError as error:
-        return folder, f"cannot be looked up: {error.strerror}; check the file name"
-    return resolved, None
+        inside = resolved.is_relative_to(bound.resolve())
+    except (OSError, RuntimeError) as error:  # RuntimeError: a loop of links (Python < 3.13)
+        strerror = getattr(error, "strerror", None) or "a loop of links"
+        return Confined(path, f"cannot be looked up: {strerror}; check the file name")
+    if not inside:
+        return Confined(resolved, f"resolves outside the {bound_name} (a link?); copy the "
+                                  f"file into the {bound_name}", outside=True)
+    return Confined(resolved, None)
+
 
 def _shown(path: str) -> str:
     return path if len(path) <= 80 else path[:77] + "..."

@@ -23,10 +23,10 @@ from .loaded import (
     LoadedMachine,
     LoadedVisit,
     Reading,
-    _resolve,
     _shown,
     _suggest,
     _unprintable,
+    confine,
     element_names,
     unit_dimension,
 )
@@ -232,20 +232,19 @@ def _load_capture(raw: Any, path: KeyPath, visit: LoadedVisit, problems: list[Pr
         return None
     machine_folder = visit.path.parent.parent
     relative = Path(str(raw["file"]))
-    resolved, unreadable = _resolve(machine_folder, relative)
-    if unreadable:
+    resolved, reason, outside = confine(machine_folder / relative, machine_folder,
+                                        "machine folder")
+    if reason and not outside:
         problems.append(document.problem(
-            (*path, "file"), f"capture '{_shown(raw['file'])}' {unreadable}"))
+            (*path, "file"), f"capture '{_shown(raw['file'])}' {reason}"))
         return None
     if relative.is_absolute() or ".." in relative.parts:
         problems.append(document.problem(
             (*path, "file"), f"'{raw['file']}' leaves the machine folder; captures must sit "
                              "inside it (write a path relative to the machine folder)"))
         return None
-    if not resolved.is_relative_to(machine_folder.resolve()):
-        problems.append(document.problem(
-            (*path, "file"), f"'{raw['file']}' resolves outside the machine folder (a link?); "
-                             "copy the file into the machine folder"))
+    if reason:
+        problems.append(document.problem((*path, "file"), f"'{raw['file']}' {reason}"))
         return None
     if not resolved.is_file():
         problems.append(document.problem(

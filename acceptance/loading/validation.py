@@ -11,8 +11,9 @@ from typing import Any
 from pydantic import BaseModel, ValidationError
 
 from ..errors import InputError, Problem
+from ..text import visible
 from ..yamlfile import Document, load_yaml
-from .loaded import _suggest
+from .loaded import _suggest, confine
 
 
 def _unwrap(annotation: Any) -> Any:
@@ -105,6 +106,10 @@ def _validate(model: type[BaseModel], document: Document, problems: list[Problem
                            f"for example {loc[-1]}: [R. Name]" if loc and loc[-1] ==
                            "performed_by" else
                            f"needs at least {wanted} entr{'y' if wanted == 1 else 'ies'}")
+            elif kind == "too_long" and isinstance(detail.get("input"), list):
+                limit = detail.get("ctx", {}).get("max_length")
+                message = (f"{len(detail['input'])} entries; the limit is {limit}: keep the "
+                           "list to what the record needs (README, Limits)")
             elif kind in ("literal_error", "enum"):
                 expected = detail.get("ctx", {}).get("expected", "")
                 message = f"{detail['input']!r} is not allowed; use one of {expected}"
@@ -145,7 +150,13 @@ def _validate(model: type[BaseModel], document: Document, problems: list[Problem
         return None
 
 
-def _load_document(path: Path, root: Path, problems: list[Problem]) -> Document | None:
+def _load_document(path: Path, root: Path, problems: list[Problem],
+                   bound_name: str = "job folder") -> Document | None:
+    """Read one YAML file under ``root``, confined to it (see :func:`confine`)."""
+    confined = confine(path, root, bound_name)
+    if confined.reason is not None:
+        problems.append(Problem(_display(path, root), 1, 1, "", confined.reason))
+        return None
     try:
         return load_yaml(path, display_name=_display(path, root))
     except InputError as error:
@@ -154,7 +165,9 @@ def _load_document(path: Path, root: Path, problems: list[Problem]) -> Document 
 
 
 def _display(path: Path, root: Path) -> str:
+    """How a message names ``path``: from the job folder's name, invisible characters
+    spelt out (a direction override in a file name would turn the message around)."""
     try:
-        return str(path.relative_to(root.parent if root.parent != root else root))
+        return visible(str(path.relative_to(root.parent if root.parent != root else root)))
     except ValueError:
-        return str(path)
+        return visible(str(path))

@@ -17,6 +17,7 @@ from markupsafe import Markup
 from ..integrity import SignatureStatus
 from ..resources import templates_dir
 from ..results import Verdict, VisitState
+from ..text import visible
 
 __all__ = ["make_environment", "render_markdown", "SIGNATURE_SHAPES"]
 
@@ -57,7 +58,16 @@ def render_markdown(text: str | None) -> Markup:
     """Markdown with raw HTML off and links limited to http, https, mailto and relative."""
     if not text:
         return Markup("")
-    return Markup(_MD.render(text))  # markdown-it escapes; raw HTML is off
+    return Markup(_MD.render(visible(text)))  # markdown-it escapes; raw HTML is off
+
+
+def _shown(value: Any) -> Any:
+    """Every value a template prints: text with its invisible and direction-changing
+    characters spelt out (acceptance.text), so a name cannot display as another; markup
+    the filters built is left as it is."""
+    if isinstance(value, str) and not isinstance(value, Markup):
+        return visible(value)
+    return value
 
 
 def _verdict_badge(verdict: Verdict | VisitState) -> Markup:
@@ -88,6 +98,7 @@ def make_environment(extra_globals: dict[str, Any] | None = None,
         trim_blocks=True,
         lstrip_blocks=True,
         keep_trailing_newline=True,
+        finalize=_shown,
     )
     env.filters["markdown"] = render_markdown
     env.filters["badge"] = _verdict_badge

@@ -17,7 +17,6 @@ from __future__ import annotations
 
 import datetime as _dt
 import hashlib
-import os
 import shutil
 from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass
@@ -26,6 +25,7 @@ from typing import TYPE_CHECKING, Any
 
 from pypdf import PdfReader
 
+from ..clock import source_date_epoch
 from ..integrity import signature_path, visit_inputs
 from .pdf import PdfInfo, PdfSource, render_document, write_archival
 from .pdfjoin import join_pdfs
@@ -55,9 +55,9 @@ def back_part_pdf(page: str) -> str:
 def build_moment(fallback: _dt.date) -> _dt.datetime:
     """``SOURCE_DATE_EPOCH`` when set (reproducible-builds.org), else midnight UTC of
     ``fallback``: never the clock, so two builds of the same inputs are byte-identical."""
-    epoch = os.environ.get("SOURCE_DATE_EPOCH")
-    if epoch:
-        return _dt.datetime.fromtimestamp(int(epoch), _dt.UTC)
+    moment = source_date_epoch()
+    if moment is not None:
+        return moment
     return _dt.datetime(fallback.year, fallback.month, fallback.day, tzinfo=_dt.UTC)
 
 

@@ -478,6 +478,12 @@ class TrendPlot:
 _MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
 
 
+def _day_at(ordinal: float) -> _dt.date:
+    """The day of ``ordinal``, kept inside the calendar: the padding around a visit dated
+    near year 1 or 9999 would otherwise leave it."""
+    return _dt.date.fromordinal(min(max(int(ordinal), 1), _dt.date.max.toordinal()))
+
+
 def _month_ticks(first: _dt.date, last: _dt.date) -> list[_dt.date]:
     """First days of months at a 1, 2, 3, 6 or 12-month step, about six across the span."""
     months = (last.year - first.year) * 12 + last.month - first.month + 1
@@ -485,8 +491,8 @@ def _month_ticks(first: _dt.date, last: _dt.date) -> list[_dt.date]:
     start = first.year * 12 + first.month - 1
     start -= start % step
     ticks = []
-    index = start
-    while True:
+    index = max(start, _dt.MINYEAR * 12)
+    while index // 12 <= _dt.MAXYEAR:
         day = _dt.date(index // 12, index % 12 + 1, 1)
         if day > last:
             break
@@ -573,8 +579,7 @@ def trend_plot(traces: Sequence[TrendInput], *, quantity: str, unit: str,
                           legend_top + 14.0 * (k // 3), dash, stroke)
                    for k, (label, dash, stroke) in enumerate(entries))
     x_ticks = tuple(Tick(to_x(day.toordinal()), f"{_MONTHS[day.month - 1]} {day.year}")
-                    for day in _month_ticks(_dt.date.fromordinal(int(math.ceil(x_low))),
-                                            _dt.date.fromordinal(int(x_high))))
+                    for day in _month_ticks(_day_at(math.ceil(x_low)), _day_at(x_high)))
     y_ticks = tuple(Tick(to_y(v), format_tick(v, y_step)) for v in y_values)
     return TrendPlot(
         width=width, height=height, title=title, x=left, y=top, plot_width=plot_width,
