@@ -45,6 +45,15 @@ from .signature_records import (
     SignatureKey,
     signature_path,
 )
+from .sitefiles import (
+    BOOKKEEPING_NAMES,
+    MANIFEST_NAME,
+    MANIFEST_SIGNATURE_NAME,
+    file_sha256,
+    read_manifest,
+    read_text_file,
+    site_files,
+)
 from .yamlfile import load_yaml
 
 __all__ = [
@@ -54,11 +63,11 @@ __all__ = [
     "SignatureStatus", "SignedInput", "SiteReport", "canonical_json", "fingerprint",
     "generate_key", "load_private_key", "load_public_key", "signature_path", "signed_at_now",
     "sign_visit", "visit_inputs", "visit_digest", "check_visit_signatures",
-    "signature_statuses", "sign_manifest", "verify_site", "verify_job",
+    "signature_statuses", "sign_manifest", "verify_site", "verify_job", "manifest_signed_by",
+    "BOOKKEEPING_NAMES",
 ]
 
 SIGNED_INPUTS_SCHEMA = "acceptance-signed-inputs/1"
-MANIFEST_SIGNATURE_NAME = "MANIFEST.sha256.sig"
 
 # Fields of job.yaml that describe the job and decide no verdict; renaming the site or the
 # contractor must not invalidate every signature. Everything else (limits, local rules,
@@ -223,13 +232,26 @@ def generate_key(path: Path, overwrite: bool = False) -> KeyPair:
     return KeyPair(private, _raw_public(private.public_key()))
 
 
-def load_private_key(path: Path) -> KeyPair:
-    serialization, ed25519 = _crypto()
+def _read_key_file(path: Path) -> bytes:
+    """The bytes of a key file, or an :class:`IntegrityError` that says what is wrong."""
+    path = Path(path)
     try:
-        key = serialization.load_pem_private_key(Path(path).read_bytes(), password=None)
+        return path.read_bytes()
     except FileNotFoundError:
         raise IntegrityError(f"{path}: key file not found; create one with "
                              "`acceptance keygen FILE`") from None
+    except IsADirectoryError:
+        raise IntegrityError(f"{path}: is a folder, not a key file; give the key file "
+                             "itself (made by `acceptance keygen FILE`)") from None
+    except OSError as error:
+        raise IntegrityError(f"{path}: the key file cannot be read ({error.strerror}); "
+                             "check that it exists and that you may read it") from None
+
+
+def load_private_key(path: Path) -> KeyPair:
+    serialization, ed25519 = _crypto()
+    try:
+        key = serialization.load_pem_private_key(_read_key_file(path), password=None)
     except (ValueError, TypeError) as error:
         raise IntegrityError(f"{path}: not an unencrypted PEM private key ({error})") from None
     if not isinstance(key, ed25519.Ed25519PrivateKey):
@@ -241,10 +263,7 @@ def load_private_key(path: Path) -> KeyPair:
 def load_public_key(path: Path) -> bytes:
     """The raw public key from a public key file (or from a private key file)."""
     serialization, ed25519 = _crypto()
-    try:
-        data = Path(path).read_bytes()
-    except FileNotFoundError:
-        raise IntegrityError(f"{path}: key file not found") from None
+    data = _read_key_file(path)
     try:
         key = serialization.load_pem_public_key(data)
     except ValueError:
@@ -535,16 +554,8 @@ def _verify_manifest_signature(site: Path, report: SiteReport,
         else:
             report.notes.append("the manifest is not signed (no MANIFEST.sha256.sig)")
         return
-    fields = {}
-    for line in signature_file.read_text(encoding="utf-8").splitlines():
-        key, _, value = line.partition(":")
-        fields[key.strip()] = value.strip()
-    try:
-        raw = base64.b64decode(fields.get("public_key", ""), validate=True)
-    except ValueError:
-        raw = b""
-    manifest_bytes = (site / "MANIFEST.sha256").read_bytes()
-    if len(raw) != 32 or not _verify(raw, fields.get("signature", ""), manifest_bytes):
+    raw = _manifest_signer(site)
+    if raw is None:
         report.problems.append(f"{MANIFEST_SIGNATURE_NAME}: the signature does not verify "
                                "the manifest")
         return
@@ -556,38 +567,65 @@ def _verify_manifest_signature(site: Path, report: SiteReport,
     report.notes.append(f"manifest signature verifies (key {shown})")
 
 
+def _manifest_signer(site: Path) -> bytes | None:
+    """The raw public key whose signature in ``MANIFEST.sha256.sig`` verifies the site's
+    manifest; None when there is none, it cannot be read or it does not verify."""
+    try:
+        text = read_text_file(site / MANIFEST_SIGNATURE_NAME, "manifest signature")
+        manifest_bytes = (site / MANIFEST_NAME).read_bytes()
+    except (ValueError, OSError):
+        return None
+    fields = {}
+    for line in text.splitlines():
+        key, _, value = line.partition(":")
+        fields[key.strip()] = value.strip()
+    try:
+        raw = base64.b64decode(fields.get("public_key", ""), validate=True)
+    except ValueError:
+        return None
+    if len(raw) != 32 or not _verify(raw, fields.get("signature", ""), manifest_bytes):
+        return None
+    return raw
+
+
+def manifest_signed_by(site: Path, public_raw: bytes) -> bool:
+    """Whether the manifest of the site at ``site`` is signed by ``public_raw``'s key."""
+    return _manifest_signer(Path(site)) == public_raw
+
+
 def verify_site(site: Path, trusted: Iterable[bytes] | None = None,
                 ignored: Iterable[str] = ()) -> SiteReport:
     """Check a built site against its ``MANIFEST.sha256`` (and its signature, if present)."""
     site = Path(site)
     report = SiteReport("site")
-    manifest = site / "MANIFEST.sha256"
-    listed: dict[str, str] = {}
-    for number, line in enumerate(manifest.read_text(encoding="utf-8").splitlines(), 1):
-        digest, separator, name = line.partition("  ")
-        if not separator or len(digest) != 64:
-            report.problems.append(f"MANIFEST.sha256:{number}: not a sha256sum line")
-            continue
-        listed[name] = digest
+    try:
+        manifest = read_manifest(site / MANIFEST_NAME)
+    except ValueError as error:
+        raise IntegrityError(str(error)) from None
+    except OSError as error:
+        raise IntegrityError(f"{site / MANIFEST_NAME}: cannot be read ({error.strerror})"
+                             ) from None
+    for number in manifest.bad_lines:
+        report.problems.append(f"{MANIFEST_NAME}:{number}: not a sha256sum line")
+    listed = manifest.digests
     root = site.resolve()
     for name, digest in sorted(listed.items()):
-        path = (site / name).resolve()
+        path = site / name
         report.checked += 1
-        if not path.is_relative_to(root):
+        if not path.resolve().is_relative_to(root) or name.split("/", 1)[0] in (
+                BOOKKEEPING_NAMES):
             report.problems.append(f"{name}: the manifest names a file outside the site")
+        elif path.is_symlink():
+            report.problems.append(f"{name}: a symbolic link, not a file of the site")
         elif not path.is_file():
             report.problems.append(f"{name}: missing")
-        elif _sha256(path.read_bytes()) != digest:
+        elif file_sha256(path) != digest:
             report.problems.append(f"{name}: content differs from the manifest")
-    skip = {"MANIFEST.sha256", MANIFEST_SIGNATURE_NAME, *ignored}
-    for path in sorted(site.rglob("*")):
-        name = path.relative_to(site).as_posix()
-        # The build's own bookkeeping (.acceptance-site, .acceptance-build.json and the
-        # package's kept parts in .acceptance-package/) is not part of the site and stays
-        # out of the manifest.
-        if name.split("/", 1)[0].startswith(".acceptance-"):
-            continue
-        if path.is_file() and name not in listed and name not in skip:
+    skipped = set(ignored)
+    # Every file but the build's own bookkeeping (BOOKKEEPING_NAMES, at the top level only)
+    # must be listed.
+    for name in site_files(site):
+        if name not in listed and name not in skipped:
             report.problems.append(f"{name}: not in the manifest (added after the build)")
     _verify_manifest_signature(site, report,
                                set(trusted) if trusted is not None else None)

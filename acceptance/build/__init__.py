@@ -11,6 +11,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
+from ..errors import BuildError
 from ..evaluation import evaluate_job
 from ..loading import load_job
 from .context import MANIFEST_NAME, BuildContext, BuildReport, Progress, SitePage
@@ -41,15 +42,30 @@ def build_site(job_root: Path, output: Path, with_pdf: bool = True,
     check_output(output, job_root)
     ctx = BuildContext(job_root, output, job, result, with_pdf=with_pdf, jobs=jobs, key=key,
                        progress=progress)
+    try:
+        _write_site(ctx, key)
+    except OSError as error:
+        # A full or read-only disk, a folder one may not write: the staging folder is gone
+        # or never made, and the previous site was not touched.
+        where = error.filename or output
+        reason = error.strerror or str(error)
+        raise BuildError(f"cannot write the site to {output}: {reason} at {where}. The "
+                         f"previous site (if any) is intact; nothing was replaced. Free space "
+                         f"or choose a folder you may write to, then build again") from None
+    return ctx.report
+
+
+def _write_site(ctx: BuildContext, key: Path | None) -> None:
+    output = ctx.output
     with build_lock(output):
         clear_leftovers(output)
-        ctx.pages = plan_site(result)
+        ctx.pages = plan_site(ctx.result)
         ctx.report.pages = len(ctx.pages)
         render_pages(ctx)
         if decide_stale(ctx):
             if key is not None:
                 sign_unchanged_manifest(output, key)
-            return ctx.report
+            return
         find_kept_front(ctx)
         open_staging(ctx)
         try:
@@ -62,4 +78,3 @@ def build_site(job_root: Path, output: Path, with_pdf: bool = True,
         except BaseException:
             discard_staging(ctx)
             raise
-    return ctx.report

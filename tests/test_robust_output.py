@@ -1,0 +1,246 @@
+"""The output side of robustness: a built site is verified before it is trusted, damaged
+output is written again, a laundered site cannot be signed, and unreadable bookkeeping,
+keys and output paths give a sentence, never a traceback.
+
+Each case is made the way a careless or hostile user would: by editing, adding, deleting or
+replacing files in a built site or around it, then running the tool as usual.
+"""
+
+from __future__ import annotations
+
+import errno
+import hashlib
+import json
+import os
+import shutil
+from pathlib import Path
+
+import pytest
+
+from acceptance import cli
+from acceptance.build import build_site
+from acceptance.integrity import generate_key, load_public_key, sign_visit, verify_site
+from acceptance.loading import load_job
+from acceptance.sitefiles import BOOKKEEPING_NAMES
+from tests.conftest import PASSING_SUPPLY, write_job
+
+
+def _no_traceback(text: str) -> None:
+    assert "Traceback" not in text and "internal error" not in text
+
+
+@pytest.fixture
+def html_site(make_job, tmp_path) -> tuple[Path, Path]:
+    root = make_job(visit={"readings": {"supply": PASSING_SUPPLY}})
+    site = tmp_path / "site"
+    build_site(root, site, with_pdf=False)
+    assert verify_site(site).ok
+    return root, site
+
+
+# ------------------------------------------------------------------ a damaged site is rebuilt
+
+
+@pytest.mark.parametrize("damage", ["deleted", "added", "edited", "edited-same-size",
+                                    "manifest-line-rewritten"])
+def test_a_rebuild_writes_a_damaged_site_again(html_site, damage):
+    root, site = html_site
+    page = site / "machines" / "m1" / "v1.html"
+    if damage == "deleted":
+        page.unlink()
+    elif damage == "added":
+        (site / "machines" / "m1" / "planted.html").write_text("<p>x</p>", encoding="utf-8")
+    elif damage == "edited":
+        page.write_text(page.read_text(encoding="utf-8") + "<p>x</p>", encoding="utf-8")
+    elif damage == "edited-same-size":
+        # Same size, mtime put back: only the build state's digest can tell.
+        status = page.stat()
+        data = bytearray(page.read_bytes())
+        data[-2:-1] = b"X" if data[-2:-1] != b"X" else b"Y"
+        page.write_bytes(bytes(data))
+        os.utime(page, ns=(status.st_atime_ns, status.st_mtime_ns))
+        report = build_site(root, site, with_pdf=False)
+        # Size and mtime unchanged: the fast check trusts the file (documented); the
+        # verification by digest still sees it, and a build with --key digests everything.
+        assert report.unchanged
+        assert not verify_site(site).ok
+        return
+    else:
+        data = page.read_text(encoding="utf-8") + "<p>x</p>"
+        page.write_text(data, encoding="utf-8")
+        manifest = site / "MANIFEST.sha256"
+        digest = hashlib.sha256(data.encode()).hexdigest()
+        manifest.write_text("".join(
+            f"{digest}  machines/m1/v1.html\n" if line.endswith("  machines/m1/v1.html\n")
+            else line for line in manifest.read_text(encoding="utf-8").splitlines(True)),
+            encoding="utf-8")
+        assert verify_site(site).ok  # the manifest alone is fooled; the build is not
+    report = build_site(root, site, with_pdf=False)
+    assert not report.unchanged, damage
+    assert verify_site(site).ok
+    assert not (site / "machines" / "m1" / "planted.html").exists()
+    assert "<p>x</p>" not in page.read_text(encoding="utf-8")
+    # Once whole again, a rebuild writes nothing.
+    assert build_site(root, site, with_pdf=False).unchanged
+
+
+def test_the_build_state_records_size_mtime_and_digest_of_every_site_file(html_site):
+    _, site = html_site
+    state = json.loads((site / ".acceptance-build.json").read_text(encoding="utf-8"))
+    listed = {line.split("  ", 1)[1]: line.split("  ", 1)[0] for line in
+              (site / "MANIFEST.sha256").read_text(encoding="utf-8").splitlines()}
+    assert set(state["files"]) == set(listed)
+    for name, (size, mtime, digest) in state["files"].items():
+        status = (site / name).stat()
+        assert (size, mtime, digest) == (status.st_size, status.st_mtime_ns, listed[name])
+
+
+# ------------------------------------------------------------------ verify: one list, exactly
+
+
+def test_verify_skips_the_bookkeeping_names_at_the_top_level_only(html_site):
+    _, site = html_site
+    assert {".acceptance-site", ".acceptance-build.json", ".acceptance-package",
+            "MANIFEST.sha256", "MANIFEST.sha256.sig"} == BOOKKEEPING_NAMES
+    (site / "machines" / ".acceptance-site").write_text("x", encoding="utf-8")
+    (site / "assets" / ".acceptance-evil.html").write_text("x", encoding="utf-8")
+    (site / ".acceptance-other").write_text("x", encoding="utf-8")
+    (site / "machines" / "MANIFEST.sha256").write_text("x", encoding="utf-8")
+    assert sorted(verify_site(site).problems) == [
+        ".acceptance-other: not in the manifest (added after the build)",
+        "assets/.acceptance-evil.html: not in the manifest (added after the build)",
+        "machines/.acceptance-site: not in the manifest (added after the build)",
+        "machines/MANIFEST.sha256: not in the manifest (added after the build)"]
+
+
+def test_verify_reports_a_planted_symbolic_link(html_site, tmp_path):
+    _, site = html_site
+    outside = tmp_path / "outside.html"
+    outside.write_text("<p>outside</p>", encoding="utf-8")
+    (site / "machines" / "m1" / "link.html").symlink_to(outside)
+    assert verify_site(site).problems == [
+        "machines/m1/link.html: not in the manifest (added after the build)"]
+
+
+# ------------------------------------------------------------------ laundering with --key
+
+
+@pytest.fixture(scope="module")
+def signed_site(tmp_path_factory):
+    base = tmp_path_factory.mktemp("launder")
+    root = write_job(base / "job", visit={"readings": {"supply": PASSING_SUPPLY}})
+    key = generate_key(base / "site.key")
+    sign_visit(load_job(root), "m1", "v1", "P. Test-Supervisor", "supervisor", key)
+    site = base / "site"
+    build_site(root, site, key=base / "site.key")
+    return root, site, base / "site.key"
+
+
+@pytest.mark.parametrize("also_state", [False, True])
+def test_a_laundered_site_is_not_signed_again(signed_site, tmp_path, also_state):
+    # A record replaced, its manifest line rewritten to match (and the build state too);
+    # the signature no longer verifies, so a rebuild with the key must not sign this
+    # manifest: the record is rendered again from the job and the result verifies.
+    root, original, key = signed_site
+    site = tmp_path / "site"
+    shutil.copytree(original, site)
+    record = site / "machines" / "m1" / "v1.pdf"
+    genuine = hashlib.sha256(record.read_bytes()).hexdigest()
+    record.write_bytes((site / "package.pdf").read_bytes())
+    forged = hashlib.sha256(record.read_bytes()).hexdigest()
+    manifest = site / "MANIFEST.sha256"
+    manifest.write_text(manifest.read_text(encoding="utf-8").replace(genuine, forged),
+                        encoding="utf-8")
+    if also_state:
+        state_path = site / ".acceptance-build.json"
+        state = json.loads(state_path.read_text(encoding="utf-8"))
+        status = record.stat()
+        state["files"]["machines/m1/v1.pdf"] = [status.st_size, status.st_mtime_ns, forged]
+        state_path.write_text(json.dumps(state), encoding="utf-8")
+    assert not verify_site(site, [load_public_key(key)]).ok
+    report = build_site(root, site, key=key)
+    assert not report.unchanged
+    assert verify_site(site, [load_public_key(key)]).ok
+    assert hashlib.sha256(record.read_bytes()).hexdigest() != forged
+
+
+# ------------------------------------------------------------------ clear errors
+
+
+def test_a_manifest_that_is_not_utf8_is_a_clear_error(html_site, capsys):
+    root, site = html_site
+    (site / "MANIFEST.sha256").write_bytes(b"\xff\xfe not text\n")
+    assert cli.main(["verify", str(site)]) == 2
+    err = capsys.readouterr().err
+    _no_traceback(err)
+    assert f"{site / 'MANIFEST.sha256'}: the manifest is not UTF-8 text" in err
+    # The build takes it as damage and writes the site again.
+    assert not build_site(root, site, with_pdf=False).unchanged
+    assert verify_site(site).ok
+
+
+def test_a_manifest_signature_that_is_not_utf8_does_not_verify(html_site, capsys):
+    _, site = html_site
+    (site / "MANIFEST.sha256.sig").write_bytes(b"signature: \xff\xff\n")
+    assert cli.main(["verify", str(site)]) == 1
+    captured = capsys.readouterr()
+    _no_traceback(captured.err)
+    assert "MANIFEST.sha256.sig: the signature does not verify the manifest" in captured.err
+
+
+def test_a_signature_record_that_is_not_utf8_is_a_clear_error(make_job, capsys):
+    root = make_job(visit={"readings": {"supply": PASSING_SUPPLY}})
+    record = root / "machines" / "m1" / "signatures" / "v1.yaml"
+    record.parent.mkdir()
+    record.write_bytes(b"schema: \xff\n")
+    assert cli.main(["verify", str(root)]) == 2
+    err = capsys.readouterr().err
+    _no_traceback(err)
+    assert "v1.yaml" in err and "UTF-8" in err
+
+
+@pytest.mark.parametrize("command", ["build", "verify"])
+def test_a_key_path_that_is_a_folder_is_a_clear_error(html_site, tmp_path, capsys, command):
+    root, site = html_site
+    folder = tmp_path / "keys"
+    folder.mkdir()
+    argv = (["build", str(root), "-o", str(site), "--no-pdf", "--key", str(folder)]
+            if command == "build" else ["verify", str(site), "--public-key", str(folder)])
+    assert cli.main(argv) == 2
+    err = capsys.readouterr().err
+    _no_traceback(err)
+    assert f"{folder}: is a folder, not a key file" in err
+
+
+def test_an_output_path_that_is_a_symbolic_link_is_refused(make_job, tmp_path, capsys):
+    root = make_job(visit={"readings": {"supply": PASSING_SUPPLY}})
+    target = tmp_path / "elsewhere"
+    target.mkdir()
+    link = tmp_path / "site"
+    link.symlink_to(target)
+    assert cli.main(["build", str(root), "-o", str(link), "--no-pdf", "-q"]) == 3
+    err = capsys.readouterr().err
+    _no_traceback(err)
+    assert f"{link} is a symbolic link" in err
+    assert not any(target.iterdir()) and link.is_symlink()
+
+
+@pytest.mark.parametrize("code", [errno.EROFS, errno.ENOSPC, errno.EACCES])
+def test_a_full_or_read_only_disk_is_a_sentence_with_the_path(html_site, tmp_path, capsys,
+                                                               monkeypatch, code):
+    # The system refuses to write (root ignores chmod, so the refusal is made at the call).
+    root, _ = html_site
+    site = tmp_path / "fresh-site"
+    real_mkdir = Path.mkdir
+
+    def refuse(self, *args, **kwargs):
+        if ".staging-" in self.name:
+            raise OSError(code, os.strerror(code), str(self))
+        return real_mkdir(self, *args, **kwargs)
+
+    monkeypatch.setattr(Path, "mkdir", refuse)
+    assert cli.main(["build", str(root), "-o", str(site), "--no-pdf", "-q"]) == 3
+    err = capsys.readouterr().err
+    _no_traceback(err)
+    assert "cannot write" in err and str(site.parent) in err
+    assert "nothing was replaced" in err
