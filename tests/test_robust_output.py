@@ -244,3 +244,79 @@ def test_a_full_or_read_only_disk_is_a_sentence_with_the_path(html_site, tmp_pat
     _no_traceback(err)
     assert "cannot write" in err and str(site.parent) in err
     assert "nothing was replaced" in err
+
+
+# ------------------------------------------------------------------ upgrades are not tampering
+
+
+@pytest.fixture
+def signed_job(make_job, monkeypatch):
+    """A visit signed by an earlier tool version that computed a verdict otherwise."""
+    import acceptance.integrity as integrity
+    from acceptance.evaluation import evaluate_job
+
+    root = make_job(visit={"readings": {"supply": PASSING_SUPPLY}})
+    job = load_job(root)
+    computed = integrity.visit_verdicts(evaluate_job(job).visits[0])
+    then = dict(computed, visit="fail")  # what the earlier version's rules gave
+    monkeypatch.setattr(integrity, "__version__", "0.0.1")
+    integrity.sign_visit(job, "m1", "v1", "P. Test-Supervisor", "supervisor",
+                         verdicts=then)
+    monkeypatch.undo()
+    return root, computed
+
+
+def test_a_tool_upgrade_is_not_an_alteration(signed_job, capsys):
+    from acceptance.integrity import check_visit_signatures
+
+    root, computed = signed_job
+    job = load_job(root)
+    machine = job.machines[0]
+    status = check_visit_signatures(job, machine, machine.visits[0], verdicts=computed)
+    assert status.state == "signed" and status.reasons == []
+    assert status.phrase == "signed, unchanged since sign-off"
+    assert status.upgrade_notes == [
+        f"the visit: fail when signed with acceptance 0.0.1, {computed['visit']} with "
+        f"acceptance {__import__('acceptance').__version__} from the same inputs (a rule "
+        "corrected in a later version, not a change to the visit)"]
+    assert cli.main(["check", str(root)]) in (0, 1)
+    out = capsys.readouterr().out
+    assert "ALTERED" not in out and "a rule corrected in a later version" in out
+    assert cli.main(["verify", str(root)]) == 0
+    assert "a rule corrected in a later version" in capsys.readouterr().out
+
+
+def test_a_record_without_kept_verdicts_still_reads(make_job):
+    # Records written before the verdicts were kept have no "verdicts": they are checked as
+    # before, and an upgrade alone does not flag them.
+    import yaml
+
+    from acceptance.integrity import check_visit_signatures
+
+    root = make_job(visit={"readings": {"supply": PASSING_SUPPLY}})
+    sign_visit(load_job(root), "m1", "v1", "P. Test-Supervisor", "supervisor")
+    record = root / "machines" / "m1" / "signatures" / "v1.yaml"
+    data = yaml.safe_load(record.read_text(encoding="utf-8"))
+    assert "verdicts" not in data["signatures"][0]
+    job = load_job(root)
+    status = check_visit_signatures(job, job.machines[0], job.machines[0].visits[0],
+                                    verdicts={"visit": "fail"})
+    assert status.state == "signed" and status.upgrade_notes == []
+
+
+def test_build_warns_about_an_altered_signed_visit_and_strict_fails(signed_job, tmp_path,
+                                                                     capsys):
+    root, _ = signed_job
+    visit = root / "machines" / "m1" / "visits" / "v1.yaml"
+    visit.write_text(visit.read_text(encoding="utf-8").replace("401 V", "402 V", 1),
+                     encoding="utf-8")
+    site = tmp_path / "site"
+    assert cli.main(["build", str(root), "-o", str(site), "--no-pdf", "--strict"]) == 3
+    err = capsys.readouterr().err
+    _no_traceback(err)
+    assert "--strict" in err and "m1/v1: altered after sign-off" in err
+    assert not site.exists()
+    assert cli.main(["build", str(root), "-o", str(site), "--no-pdf"]) == 0
+    err = capsys.readouterr().err
+    assert "warning: m1/v1: altered after sign-off: visit file" in err
+    assert verify_site(site).ok

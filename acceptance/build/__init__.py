@@ -29,19 +29,20 @@ __all__ = ["BuildReport", "SitePage", "build_site", "plan_site", "MANIFEST_NAME"
 
 def build_site(job_root: Path, output: Path, with_pdf: bool = True,
                progress: Progress | None = None, jobs: int = 1,
-               key: Path | None = None) -> BuildReport:
+               key: Path | None = None, strict: bool = False) -> BuildReport:
     """Build the site for the job at ``job_root`` into ``output``.
 
     Only what changed is rendered again: a PDF whose page, styles and tool version are
     unchanged is taken from the previous site, and a rebuild that changes nothing writes
-    nothing at all.
+    nothing at all. A signed visit altered after sign-off is listed in the report's
+    ``altered``; with ``strict`` the build stops there and writes nothing.
     """
     job_root, output = Path(job_root), Path(output)
     job = load_job(job_root)  # raises InputError before anything is written
     result = evaluate_job(job)
     check_output(output, job_root)
     ctx = BuildContext(job_root, output, job, result, with_pdf=with_pdf, jobs=jobs, key=key,
-                       progress=progress)
+                       progress=progress, strict=strict)
     try:
         _write_site(ctx, key)
     except OSError as error:
@@ -62,6 +63,13 @@ def _write_site(ctx: BuildContext, key: Path | None) -> None:
         ctx.pages = plan_site(ctx.result)
         ctx.report.pages = len(ctx.pages)
         render_pages(ctx)
+        ctx.report.altered = [
+            f"{name}: {status.phrase}: {'; '.join(status.reasons)}"
+            for name, status in ctx.signatures.items() if status.state in ("altered", "invalid")]
+        if ctx.strict and ctx.report.altered:
+            raise BuildError("--strict: signed visits changed since sign-off; nothing was "
+                             "written. Review the changes and sign the visits again:\n  "
+                             + "\n  ".join(ctx.report.altered))
         if decide_stale(ctx):
             if key is not None:
                 sign_unchanged_manifest(output, key)

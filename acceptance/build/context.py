@@ -89,6 +89,9 @@ class BuildReport:
     unchanged: bool = False  # nothing changed: nothing was written
     files: list[str] = field(default_factory=list)
     result: JobResult | None = None
+    # signed visits whose inputs changed since sign-off (or whose record does not hold):
+    # "machine/visit: state: reasons"
+    altered: list[str] = field(default_factory=list)
 
 
 @dataclass
@@ -102,6 +105,7 @@ class BuildContext:
     with_pdf: bool = True
     jobs: int = 1  # PDF worker processes
     key: Path | None = None  # Ed25519 private key that signs the manifest
+    strict: bool = False  # refuse to write a site showing a visit altered after sign-off
     progress: Progress | None = None
     report: BuildReport = field(init=False)
     # plan

@@ -118,7 +118,8 @@ def _evaluate(root: Path, variant: str, machines: list[str] | None
     sections = {}
     for machine in result.machines:
         signatures = io.StringIO()
-        altered = _report_signatures(job, loaded[machine.id], signatures)
+        altered = _report_signatures(job, loaded[machine.id], signatures,
+                                     {v.id: v for v in machine.visits})
         section: dict[str, Any] = {
             "states": [visit.state.value for visit in machine.visits],
             "signatures": signatures.getvalue(), "altered": altered}
@@ -154,13 +155,16 @@ def _print(variant: str, head: Any, sections: list[dict[str, Any]]) -> int:
     return 0 if passed and not any(section["altered"] for section in sections) else 1
 
 
-def _report_signatures(job: Job, machine: LoadedMachine, stream: io.StringIO) -> int:
+def _report_signatures(job: Job, machine: LoadedMachine, stream: io.StringIO,
+                       results: dict[str, Any]) -> int:
     """Print each signed visit's sign-off state; return how many were altered after it."""
-    from ..integrity import check_visit_signatures
+    from ..integrity import check_visit_signatures, visit_verdicts
 
     altered = 0
     for visit in machine.visits:
-        status = check_visit_signatures(job, machine, visit)
+        result = results.get(visit.id)
+        status = check_visit_signatures(job, machine, visit, verdicts=(
+            visit_verdicts(result) if result is not None else None))
         if status.state == "unsigned":
             continue
         who = ", ".join(f"{c.name} ({c.role})" for c in status.checks)
@@ -169,5 +173,7 @@ def _report_signatures(job: Job, machine: LoadedMachine, stream: io.StringIO) ->
               f" — {who}", file=stream)
         for reason in status.reasons:
             print(f"    {reason}", file=stream)
+        for note in status.upgrade_notes:
+            print(f"    {note}", file=stream)
         altered += status.state != "signed"
     return altered
