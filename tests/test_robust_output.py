@@ -320,3 +320,121 @@ def test_build_warns_about_an_altered_signed_visit_and_strict_fails(signed_job, 
     err = capsys.readouterr().err
     assert "warning: m1/v1: altered after sign-off: visit file" in err
     assert verify_site(site).ok
+
+
+# ------------------------------------------------------------------ text stays text
+
+
+def test_deficiency_cells_are_never_formulas(make_job, tmp_path):
+    # The usual neutralisation (OWASP "CSV Injection") [P]: a leading apostrophe on a cell
+    # starting with =, +, -, @, tab or CR.
+    import csv
+
+    from acceptance.text import csv_cell
+
+    for value in ("=1+1", "+1", "-2", "@SUM(A1)", "\tx", "\rx"):
+        assert csv_cell(value) == "'" + value
+    assert csv_cell("plain") == "plain" and csv_cell("") == ""
+    root = make_job(machine={"name": '=HYPERLINK("http://example.invalid","open")'},
+                    visit={"readings": {"supply": {"voltage": {"L1-L2": "300 V"}}}})
+    site = tmp_path / "site"
+    build_site(root, site, with_pdf=False)
+    rows = list(csv.reader((site / "deficiencies.csv").read_text(encoding="utf-8")
+                           .splitlines()))
+    assert len(rows) > 1
+    for row in rows[1:]:
+        assert row[1].startswith("'=HYPERLINK")
+        assert not any(cell.startswith(("=", "+", "-", "@", "\t", "\r")) for cell in row)
+
+
+def test_control_characters_never_reach_a_terminal_raw(make_job, capsys):
+    from acceptance.text import terminal_text
+
+    assert terminal_text("a\x1b[2Jb\u202ec\nd") == "a\\u001b[2Jb\\u202ec\nd"
+    assert terminal_text("\x9b31m") == "\\u009b31m"
+    # An escape sequence in a value that check echoes in its message.
+    root = make_job(visit={"readings": {"supply": {"voltage": {"L1-L2": "\x1b[2J401 V"}}}})
+    code = cli.main(["check", str(root)])
+    captured = capsys.readouterr()
+    assert code in (0, 1, 2)
+    assert "\x1b" not in captured.out + captured.err
+    assert "\\u001b[2J" in captured.out + captured.err
+
+
+def test_xml_invalid_characters_never_reach_pdf_metadata(make_job, tmp_path):
+    # XML 1.0 (5th ed.) clause 2.2 production [2] Char [S]: no C0 control but tab, LF, CR.
+    from pypdf import PdfReader
+
+    from acceptance.text import xml_text
+
+    assert xml_text("a\x00b\x1bc\x0bd\ufffee\tf") == "abcde\tf"
+    root = make_job(job={"title": "Line\x0b one\x1b", "site": {"name": "Hall\x07 2"}},
+                    visit={"readings": {"supply": PASSING_SUPPLY}})
+    site = tmp_path / "site"
+    build_site(root, site)
+    import xml.dom.minidom
+
+    for pdf in (site / "package.pdf", site / "machines" / "m1" / "v1.pdf"):
+        metadata = PdfReader(pdf).trailer["/Root"]["/Metadata"].get_object().get_data()
+        xml.dom.minidom.parseString(metadata)  # well formed
+
+
+@pytest.mark.parametrize("target", ["%2e%2e/%2e%2e/etc/passwd", "%252e%252e/secret",
+                                    "..%2fjob.yaml", "%2Fetc/passwd",
+                                    "java%0ascript:alert(1)", "jav%09ascript:alert(1)"])
+def test_percent_encoded_links_out_of_the_site_are_refused(target):
+    from acceptance.rendering.html import render_markdown
+
+    html = str(render_markdown(f"[x]({target})"))
+    assert "href" not in html, html
+
+
+def test_links_inside_the_site_are_kept():
+    from acceptance.rendering.html import render_markdown
+
+    assert 'href="attachments/a%20b.txt"' in str(render_markdown("[x](attachments/a%20b.txt)"))
+
+
+# ------------------------------------------------------------------ names that link
+
+
+def test_awkward_names_link_to_their_files(tmp_path):
+    # Folder and file names with a space, '#', '?' and '%' (and a '+' and an '&'): every
+    # link of every page, and of the visit's PDF record, resolves to a file of the site.
+    import re
+    from urllib.parse import unquote, urlsplit
+
+    from pypdf import PdfReader
+
+    machine_id, visit_id, attachment = "m 1#?%", "v 1#?%&+", "photo #2 ?% 50%.txt"
+    root = write_job(tmp_path / "job", machine_id=machine_id,
+                     visits={visit_id: {"readings": {"supply": PASSING_SUPPLY},
+                                        "attachments": [{"path": attachment,
+                                                         "title": "a photo"}]},
+                             "v2": {"date": "2026-03-11",
+                                    "readings": {"supply": {"voltage": {"L1-L2": "300 V"}}}}},
+                     files={f"machines/{machine_id}/{attachment}": "taken on site\n"})
+    site = tmp_path / "site"
+    build_site(root, site)
+    pages = sorted(site.rglob("*.html"))
+    assert (site / "machines" / machine_id / f"{visit_id}.html") in pages
+    checked = 0
+    for page in pages:
+        for href in re.findall(r'href="([^"]*)"', page.read_text(encoding="utf-8")):
+            href = href.replace("&amp;", "&")
+            parts = urlsplit(href)
+            if parts.scheme or not parts.path:
+                continue
+            target = (page.parent / unquote(parts.path)).resolve()
+            assert target.is_file(), f"{page.relative_to(site)}: {href}"
+            checked += 1
+    assert checked > 20
+    record = site / "machines" / machine_id / f"{visit_id}.pdf"
+    for pdf in (record,):
+        for page in PdfReader(pdf).pages:
+            for annotation in page.get("/Annots") or []:
+                action = annotation.get_object().get("/A") or {}
+                uri = action.get("/URI")
+                if not uri or urlsplit(uri).scheme or not urlsplit(uri).path:
+                    continue
+                assert (pdf.parent / unquote(urlsplit(uri).path)).resolve().is_file(), uri

@@ -20,6 +20,7 @@ from typing import TYPE_CHECKING, Any
 
 from .. import check_cache
 from ..results import MachineResult, Verdict, VisitState, count_states, machine_to_json, to_json
+from ..text import terminal_text
 
 if TYPE_CHECKING:
     from ..loading import Job, LoadedMachine
@@ -145,12 +146,12 @@ def _print(variant: str, head: Any, sections: list[dict[str, Any]]) -> int:
         machines = f"[\n{items}\n{_JSON_KEY_INDENT}]" if sections else "[]"
         document = json.dumps(head, ensure_ascii=False, indent=2).replace(
             f'\n{_JSON_KEY_INDENT}"machines": []', f'\n{_JSON_KEY_INDENT}"machines": {machines}', 1)
-        sys.stdout.write(document + "\n")
-        sys.stderr.write(signatures)
+        sys.stdout.write(terminal_text(document) + "\n")
+        sys.stderr.write(terminal_text(signatures))
     else:
         body = "\n".join([head, *(section["text"] for section in sections), ""])
         # The sign-off states come after every machine, and the totals stay the last line.
-        sys.stdout.write(f"{body}\n{signatures}{totals_line(states)}\n")
+        sys.stdout.write(terminal_text(f"{body}\n{signatures}{totals_line(states)}\n"))
     passed = all(state == VisitState.PASS.value for state in states)
     return 0 if passed and not any(section["altered"] for section in sections) else 1
 

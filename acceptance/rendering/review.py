@@ -16,6 +16,7 @@ from typing import Any
 
 from ..integrity import SignatureStatus
 from ..results import Deficiency, JobResult, VisitResult
+from ..text import csv_cell, url_segment
 
 __all__ = ["INDEX_DATA_NAME", "DEFICIENCIES_CSV_NAME", "index_options", "index_data_script",
            "deficiencies_csv", "review_globals", "verdict_counts"]
@@ -64,7 +65,10 @@ def verdict_counts(counts: Mapping[str, int]) -> list[tuple[str, int]]:
 
 def deficiencies_csv(rows: Iterable[Deficiency], result: JobResult,
                      signatures: Mapping[str, Any] | None = None) -> str:
-    """The punch list as CSV with a header row (RFC 4180), one line per open point."""
+    """The punch list as CSV with a header row (RFC 4180), one line per open point.
+
+    Every cell is text: one a spreadsheet would run as a formula gets a leading apostrophe
+    (:func:`acceptance.text.csv_cell`)."""
     machines = {m.id: m for m in result.machines}
     dates = {(v.machine, v.id): v.date.isoformat() for v in result.visits}
     buffer = io.StringIO()
@@ -73,12 +77,13 @@ def deficiencies_csv(rows: Iterable[Deficiency], result: JobResult,
     for row in rows:
         machine = machines[row.machine]
         status = (signatures or {}).get(f"{row.machine}/{row.visit}")
-        writer.writerow([
+        writer.writerow([csv_cell(cell) for cell in (
             row.machine, machine.name, machine.area or "", row.visit,
             dates[(row.machine, row.visit)], row.item, row.title, row.element or "",
             row.reading or "", row.verdict.word, row.severity.value,
             status.phrase if status is not None else "not signed",
-            f"machines/{row.machine}/{row.visit}.html#{row.anchor}"])
+            f"machines/{url_segment(row.machine)}/{url_segment(row.visit)}.html"
+            f"#{row.anchor}")])
     return buffer.getvalue()
 
 
