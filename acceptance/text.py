@@ -45,7 +45,7 @@ def terminal_text(text: str) -> str:
     format characters (Cf: bidirectional overrides and isolates, zero-width characters) are
     written as ``\\uNNNN``; a line break stays a line break.
     """
-    if text.isprintable():
+    if text.replace("\n", "").isprintable():  # the usual case, at C speed
         return text
     return "".join(char if char == "\n" or unicodedata.category(char) not in ("Cc", "Cf")
                    else _escaped(char) for char in text)
