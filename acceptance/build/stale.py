@@ -49,6 +49,10 @@ def decide_stale(ctx: BuildContext) -> bool:
         # A manifest this build neither wrote nor can vouch for is not signed: whatever it
         # lists (a PDF and its line both rewritten) is rendered again, not carried forward.
         previous = BuildState()
+    elif ctx.key is not None:
+        # The package's kept parts are bookkeeping, outside the signed manifest: a build
+        # that signs lays them out again rather than join parts it cannot vouch for.
+        previous.kept = {}
     ctx.previous = previous
     digests = {name: hashlib.sha256(data).hexdigest() for name, data in ctx.files.items()}
     # A previous PDF is reused only if it is still the file the previous build recorded:
