@@ -10,6 +10,7 @@ from collections.abc import Sequence
 
 from . import __version__
 from .errors import AcceptanceError, InputError
+from .text import terminal_text
 
 # Each command lives in acceptance/commands/<name>.py and exposes
 # ``register(subparsers)``; modules are imported lazily so that light commands
@@ -68,10 +69,10 @@ def main(argv: Sequence[str] | None = None) -> int:
     except InputError as error:
         # One problem per line, each starting with its location, however many there are:
         # editors and scripts read 'file:line:column:' at the start of a line.
-        print(str(error), file=sys.stderr)
+        print(terminal_text(str(error)), file=sys.stderr)
         return error.exit_code
     except AcceptanceError as error:
-        print(f"error: {error}", file=sys.stderr)
+        print(terminal_text(f"error: {error}"), file=sys.stderr)
         return error.exit_code
     except KeyboardInterrupt:
         print("interrupted; nothing was replaced", file=sys.stderr)
@@ -89,7 +90,8 @@ def main(argv: Sequence[str] | None = None) -> int:
             import traceback
 
             traceback.print_exc(file=sys.stderr)
-        print(f"internal error: {type(error).__name__}: {error}", file=sys.stderr)
+        print(terminal_text(f"internal error: {type(error).__name__}: {error}"),
+              file=sys.stderr)
         print(f"This is a fault in acceptance {__version__}, not in your files. Please report "
               f"it with the command line ({_command_line(argv)}) and the version; "
               f"run it again with 'acceptance --debug ...' to include the traceback.",

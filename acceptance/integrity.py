@@ -13,6 +13,13 @@ photos) are digested from their raw bytes. The visit's digest is the SHA-256 of 
 JSON of ``{"schema", "tool_version", "inputs": {name: digest}}``, so a record can say which
 input changed, not only that one did.
 
+Upgrades are not tampering. The tool version is recorded (and is part of the digest, so the
+record holds together), but only the inputs decide whether a visit was *altered after
+sign-off*. The record also keeps the verdicts the tool computed at sign-off; a later tool
+version that computes the same verdicts leaves the visit "signed, unchanged", and one that
+computes others says which verdicts changed and that a later version of the rules made the
+difference.
+
 An optional Ed25519 signature (RFC 8032) covers a statement naming the machine, the visit,
 the signer, the role, the time and that digest; the record carries the public key and its
 fingerprint, and ``verify --public-key`` says whether that key is one the reader trusts.
@@ -46,6 +53,15 @@ from .signature_records import (
     SignatureKey,
     signature_path,
 )
+from .sitefiles import (
+    BOOKKEEPING_NAMES,
+    MANIFEST_NAME,
+    MANIFEST_SIGNATURE_NAME,
+    file_sha256,
+    read_manifest,
+    read_text_file,
+    site_files,
+)
 from .yamlfile import load_yaml
 
 __all__ = [
@@ -55,11 +71,11 @@ __all__ = [
     "SignatureStatus", "SignedInput", "SiteReport", "canonical_json", "fingerprint",
     "generate_key", "load_private_key", "load_public_key", "signature_path", "signed_at_now",
     "sign_visit", "visit_inputs", "visit_digest", "check_visit_signatures",
-    "signature_statuses", "sign_manifest", "verify_site", "verify_job",
+    "signature_statuses", "visit_verdicts", "sign_manifest", "verify_site", "verify_job",
+    "manifest_signed_by", "BOOKKEEPING_NAMES",
 ]
 
 SIGNED_INPUTS_SCHEMA = "acceptance-signed-inputs/1"
-MANIFEST_SIGNATURE_NAME = "MANIFEST.sha256.sig"
 
 # Fields of job.yaml that describe the job and decide no verdict; renaming the site or the
 # contractor must not invalidate every signature. Everything else (limits, local rules,
@@ -171,10 +187,10 @@ def _combined_digest(inputs: dict[str, str], tool_version: str) -> str:
 
 
 def visit_digest(job: Job, machine: LoadedMachine, visit: LoadedVisit,
-                 tool_version: str = __version__) -> tuple[str, dict[str, str]]:
+                 tool_version: str | None = None) -> tuple[str, dict[str, str]]:
     """The visit's digest and the digest of each input it covers."""
     inputs = {i.name: i.digest for i in visit_inputs(job, machine, visit)}
-    return _combined_digest(inputs, tool_version), inputs
+    return _combined_digest(inputs, tool_version or __version__), inputs
 
 
 # ------------------------------------------------------------------ keys
@@ -231,13 +247,26 @@ def generate_key(path: Path, overwrite: bool = False) -> KeyPair:
     return KeyPair(private, _raw_public(private.public_key()))
 
 
-def load_private_key(path: Path) -> KeyPair:
-    serialization, ed25519 = _crypto()
+def _read_key_file(path: Path) -> bytes:
+    """The bytes of a key file, or an :class:`IntegrityError` that says what is wrong."""
+    path = Path(path)
     try:
-        key = serialization.load_pem_private_key(Path(path).read_bytes(), password=None)
+        return path.read_bytes()
     except FileNotFoundError:
         raise IntegrityError(f"{path}: key file not found; create one with "
                              "`acceptance keygen FILE`") from None
+    except IsADirectoryError:
+        raise IntegrityError(f"{path}: is a folder, not a key file; give the key file "
+                             "itself (made by `acceptance keygen FILE`)") from None
+    except OSError as error:
+        raise IntegrityError(f"{path}: the key file cannot be read ({error.strerror}); "
+                             "check that it exists and that you may read it") from None
+
+
+def load_private_key(path: Path) -> KeyPair:
+    serialization, ed25519 = _crypto()
+    try:
+        key = serialization.load_pem_private_key(_read_key_file(path), password=None)
     except (ValueError, TypeError) as error:
         raise IntegrityError(f"{path}: not an unencrypted PEM private key ({error})") from None
     if not isinstance(key, ed25519.Ed25519PrivateKey):
@@ -249,10 +278,7 @@ def load_private_key(path: Path) -> KeyPair:
 def load_public_key(path: Path) -> bytes:
     """The raw public key from a public key file (or from a private key file)."""
     serialization, ed25519 = _crypto()
-    try:
-        data = Path(path).read_bytes()
-    except FileNotFoundError:
-        raise IntegrityError(f"{path}: key file not found") from None
+    data = _read_key_file(path)
     try:
         key = serialization.load_pem_public_key(data)
     except ValueError:
@@ -282,10 +308,22 @@ def _verify(public_raw: bytes, signature_b64: str, message: bytes) -> bool:
 
 
 def _statement(machine: str, visit: str, entry_name: str, role: str, signed_at: str,
-               digest: str) -> bytes:
-    return canonical_json({"schema": SIGNATURE_SCHEMA, "machine": machine, "visit": visit,
-                           "name": entry_name, "role": role, "signed_at": signed_at,
-                           "digest": digest})
+               digest: str, verdicts: dict[str, str] | None = None) -> bytes:
+    statement: dict[str, Any] = {"schema": SIGNATURE_SCHEMA, "machine": machine,
+                                 "visit": visit, "name": entry_name, "role": role,
+                                 "signed_at": signed_at, "digest": digest}
+    if verdicts is not None:  # records written before verdicts were kept have none
+        statement["verdicts"] = verdicts
+    return canonical_json(statement)
+
+
+def visit_verdicts(visit: Any) -> dict[str, str]:
+    """What the tool computed for a visit (a :class:`~acceptance.results.VisitResult`): its
+    state and each item's verdict, as kept in a signature record."""
+    verdicts = {"visit": str(visit.state.value)}
+    for item in visit.items:
+        verdicts[item.key] = str(item.verdict.value)
+    return verdicts
 
 
 def signed_at_now() -> str:
@@ -321,8 +359,13 @@ class SignOutcome:
 
 
 def sign_visit(job: Job, machine_id: str, visit_id: str, name: str, role: str,
-               key: KeyPair | None = None, signed_at: str | None = None) -> SignOutcome:
-    """Add a signature for the visit's current inputs to its record; never rewrite one."""
+               key: KeyPair | None = None, signed_at: str | None = None,
+               verdicts: dict[str, str] | None = None) -> SignOutcome:
+    """Add a signature for the visit's current inputs to its record; never rewrite one.
+
+    ``verdicts`` (from :func:`visit_verdicts`) are what the tool computes for the visit now;
+    they are kept so that a later tool version can say which verdicts it computes otherwise.
+    """
     machine = next((m for m in job.machines if m.id == machine_id), None)
     if machine is None:
         known = ", ".join(m.id for m in job.machines)
@@ -347,9 +390,11 @@ def sign_visit(job: Job, machine_id: str, visit_id: str, name: str, role: str,
     if key is not None:
         entry_key = SignatureKey(public_key=base64.b64encode(key.public_raw).decode("ascii"),
                                  fingerprint=key.fingerprint)
-        signature = _sign(key, _statement(machine_id, visit_id, name, role, moment, digest))
+        signature = _sign(key, _statement(machine_id, visit_id, name, role, moment, digest,
+                                          verdicts))
     entry = SignatureEntry(name=name, role=role, signed_at=moment, tool_version=__version__,
-                           digest=digest, inputs=inputs, key=entry_key, signature=signature)
+                           digest=digest, inputs=inputs, key=entry_key, signature=signature,
+                           verdicts=verdicts)
     record = SignatureFile(schema=SIGNATURE_SCHEMA, machine=machine_id, visit=visit_id,
                            signatures=[*existing, entry])
     _write_record(path, record)
@@ -372,6 +417,9 @@ class SignatureCheck:
     changes: tuple[str, ...] = ()  # inputs changed since signing
     problems: tuple[str, ...] = ()  # the record itself does not hold together
     trusted: bool | None = None  # None: no trusted keys were given
+    tool_version: str = ""  # the version that computed the verdicts at sign-off
+    # verdicts a later tool version computes otherwise from the same inputs (not "altered")
+    recomputed: tuple[str, ...] = ()
 
     @property
     def signed_date(self) -> str:
@@ -398,12 +446,17 @@ class SignatureStatus:
                                   if check.state in ("altered", "invalid")
                                   for text in (*check.problems, *check.changes)))
 
+    @property
+    def upgrade_notes(self) -> list[str]:
+        """What a later tool version computes otherwise from the signed, unchanged inputs:
+        never a sign of tampering, said apart from it."""
+        return list(dict.fromkeys(text for check in self.checks if check.state == "valid"
+                                  for text in check.recomputed))
+
 
 def _describe_changes(entry: SignatureEntry, current: dict[str, str],
                       descriptions: dict[str, str]) -> list[str]:
     changes = []
-    if entry.tool_version != __version__:
-        changes.append(f"tool version {entry.tool_version} at sign-off, {__version__} now")
     for name in sorted(set(entry.inputs) | set(current)):
         then, now = entry.inputs.get(name), current.get(name)
         what = descriptions.get(name, name)
@@ -420,9 +473,30 @@ def _describe_changes(entry: SignatureEntry, current: dict[str, str],
     return changes
 
 
+def _recomputed(entry: SignatureEntry, verdicts: dict[str, str] | None) -> list[str]:
+    """The verdicts this tool version computes otherwise than the one that signed."""
+    if verdicts is None or entry.verdicts is None:
+        return []
+    notes = []
+    for name in sorted(set(entry.verdicts) | set(verdicts)):
+        then, now = entry.verdicts.get(name, "not computed"), verdicts.get(name, "not computed")
+        if then != now:
+            what = "the visit" if name == "visit" else f"item {name}"
+            notes.append(f"{what}: {then} when signed with acceptance {entry.tool_version}, "
+                         f"{now} with acceptance {__version__} from the same inputs (a rule "
+                         "corrected in a later version, not a change to the visit)")
+    return notes
+
+
 def check_visit_signatures(job: Job, machine: LoadedMachine, visit: LoadedVisit,
-                           trusted: Iterable[bytes] | None = None) -> SignatureStatus:
-    """Check every signature of ``visit`` against its inputs as they are now."""
+                           trusted: Iterable[bytes] | None = None,
+                           verdicts: dict[str, str] | None = None) -> SignatureStatus:
+    """Check every signature of ``visit`` against its inputs as they are now.
+
+    Only changed inputs make a visit *altered*; a later tool version is not a change. When
+    ``verdicts`` (what this version computes, :func:`visit_verdicts`) are given, a signature
+    that kept its verdicts says which of them this version computes otherwise.
+    """
     records = list(getattr(visit, "signatures", None) or [])
     path = signature_path(machine.folder, visit.id)
     if not records:
@@ -454,7 +528,7 @@ def check_visit_signatures(job: Job, machine: LoadedMachine, visit: LoadedVisit,
                         raw = b""
                     fingerprint_text = fingerprint(raw) if len(raw) == 32 else None
                     message = _statement(record.machine, record.visit, entry.name, entry.role,
-                                         entry.signed_at, entry.digest)
+                                         entry.signed_at, entry.digest, entry.verdicts)
                     if fingerprint_text is None or not _verify(raw, entry.signature, message):
                         problems.append(f"the Ed25519 signature of {entry.name} does not "
                                         "verify with the key in the record")
@@ -473,9 +547,11 @@ def check_visit_signatures(job: Job, machine: LoadedMachine, visit: LoadedVisit,
             changes = _describe_changes(entry, current, descriptions)
             state: Literal["valid", "altered", "invalid"] = (
                 "invalid" if problems else "altered" if changes else "valid")
+            recomputed = _recomputed(entry, verdicts) if state == "valid" else []
             checks.append(SignatureCheck(entry.name, entry.role, entry.signed_at,
                                          fingerprint_text, state, tuple(changes),
-                                         tuple(problems), is_trusted))
+                                         tuple(problems), is_trusted, entry.tool_version,
+                                         tuple(recomputed)))
     # A later signature over the current inputs (a re-sign after the changes were reviewed)
     # supersedes earlier ones made over other inputs; they stay listed, never removed.
     latest_valid = max((n for n, c in enumerate(checks) if c.state == "valid"), default=-1)
@@ -492,9 +568,13 @@ def check_visit_signatures(job: Job, machine: LoadedMachine, visit: LoadedVisit,
     return SignatureStatus(overall, tuple(checks), shown)
 
 
-def signature_statuses(job: Job) -> dict[str, SignatureStatus]:
-    """``machine/visit`` → its signature status, for every visit of the job."""
-    return {f"{m.id}/{v.id}": check_visit_signatures(job, m, v)
+def signature_statuses(job: Job, result: Any = None) -> dict[str, SignatureStatus]:
+    """``machine/visit`` → its signature status, for every visit of the job; with the job's
+    ``result``, each says which verdicts this tool version computes otherwise."""
+    computed = ({f"{v.machine}/{v.id}": visit_verdicts(v) for v in result.visits}
+                if result is not None else {})
+    return {f"{m.id}/{v.id}": check_visit_signatures(job, m, v,
+                                                     verdicts=computed.get(f"{m.id}/{v.id}"))
             for m in job.machines for v in m.visits}
 
 
@@ -541,16 +621,8 @@ def _verify_manifest_signature(site: Path, report: SiteReport,
         else:
             report.notes.append("the manifest is not signed (no MANIFEST.sha256.sig)")
         return
-    fields = {}
-    for line in signature_file.read_text(encoding="utf-8").splitlines():
-        key, _, value = line.partition(":")
-        fields[key.strip()] = value.strip()
-    try:
-        raw = base64.b64decode(fields.get("public_key", ""), validate=True)
-    except ValueError:
-        raw = b""
-    manifest_bytes = (site / "MANIFEST.sha256").read_bytes()
-    if len(raw) != 32 or not _verify(raw, fields.get("signature", ""), manifest_bytes):
+    raw = _manifest_signer(site)
+    if raw is None:
         report.problems.append(f"{MANIFEST_SIGNATURE_NAME}: the signature does not verify "
                                "the manifest")
         return
@@ -562,38 +634,65 @@ def _verify_manifest_signature(site: Path, report: SiteReport,
     report.notes.append(f"manifest signature verifies (key {shown})")
 
 
+def _manifest_signer(site: Path) -> bytes | None:
+    """The raw public key whose signature in ``MANIFEST.sha256.sig`` verifies the site's
+    manifest; None when there is none, it cannot be read or it does not verify."""
+    try:
+        text = read_text_file(site / MANIFEST_SIGNATURE_NAME, "manifest signature")
+        manifest_bytes = (site / MANIFEST_NAME).read_bytes()
+    except (ValueError, OSError):
+        return None
+    fields = {}
+    for line in text.splitlines():
+        key, _, value = line.partition(":")
+        fields[key.strip()] = value.strip()
+    try:
+        raw = base64.b64decode(fields.get("public_key", ""), validate=True)
+    except ValueError:
+        return None
+    if len(raw) != 32 or not _verify(raw, fields.get("signature", ""), manifest_bytes):
+        return None
+    return raw
+
+
+def manifest_signed_by(site: Path, public_raw: bytes) -> bool:
+    """Whether the manifest of the site at ``site`` is signed by ``public_raw``'s key."""
+    return _manifest_signer(Path(site)) == public_raw
+
+
 def verify_site(site: Path, trusted: Iterable[bytes] | None = None,
                 ignored: Iterable[str] = ()) -> SiteReport:
     """Check a built site against its ``MANIFEST.sha256`` (and its signature, if present)."""
     site = Path(site)
     report = SiteReport("site")
-    manifest = site / "MANIFEST.sha256"
-    listed: dict[str, str] = {}
-    for number, line in enumerate(manifest.read_text(encoding="utf-8").splitlines(), 1):
-        digest, separator, name = line.partition("  ")
-        if not separator or len(digest) != 64:
-            report.problems.append(f"MANIFEST.sha256:{number}: not a sha256sum line")
-            continue
-        listed[name] = digest
+    try:
+        manifest = read_manifest(site / MANIFEST_NAME)
+    except ValueError as error:
+        raise IntegrityError(str(error)) from None
+    except OSError as error:
+        raise IntegrityError(f"{site / MANIFEST_NAME}: cannot be read ({error.strerror})"
+                             ) from None
+    for number in manifest.bad_lines:
+        report.problems.append(f"{MANIFEST_NAME}:{number}: not a sha256sum line")
+    listed = manifest.digests
     root = site.resolve()
     for name, digest in sorted(listed.items()):
-        path = (site / name).resolve()
+        path = site / name
         report.checked += 1
-        if not path.is_relative_to(root):
+        if not path.resolve().is_relative_to(root) or name.split("/", 1)[0] in (
+                BOOKKEEPING_NAMES):
             report.problems.append(f"{name}: the manifest names a file outside the site")
+        elif path.is_symlink():
+            report.problems.append(f"{name}: a symbolic link, not a file of the site")
         elif not path.is_file():
             report.problems.append(f"{name}: missing")
-        elif _sha256(path.read_bytes()) != digest:
+        elif file_sha256(path) != digest:
             report.problems.append(f"{name}: content differs from the manifest")
-    skip = {"MANIFEST.sha256", MANIFEST_SIGNATURE_NAME, *ignored}
-    for path in sorted(site.rglob("*")):
-        name = path.relative_to(site).as_posix()
-        # The build's own bookkeeping (.acceptance-site, .acceptance-build.json and the
-        # package's kept parts in .acceptance-package/) is not part of the site and stays
-        # out of the manifest.
-        if name.split("/", 1)[0].startswith(".acceptance-"):
-            continue
-        if path.is_file() and name not in listed and name not in skip:
+    skipped = set(ignored)
+    # Every file but the build's own bookkeeping (BOOKKEEPING_NAMES, at the top level only)
+    # must be listed.
+    for name in site_files(site):
+        if name not in listed and name not in skipped:
             report.problems.append(f"{name}: not in the manifest (added after the build)")
     _verify_manifest_signature(site, report,
                                set(trusted) if trusted is not None else None)
@@ -602,12 +701,16 @@ def verify_site(site: Path, trusted: Iterable[bytes] | None = None,
 
 def verify_job(root: Path, trusted: Iterable[bytes] | None = None) -> SiteReport:
     """Check every signed visit of the job at ``root``: digest and signature."""
+    from .evaluation import evaluate_job  # the verdicts this version computes
+
     job = load_job(root)
+    computed = {f"{v.machine}/{v.id}": visit_verdicts(v) for v in evaluate_job(job).visits}
     report = SiteReport("job")
     trusted_list = list(trusted) if trusted is not None else None
     for machine in job.machines:
         for visit in machine.visits:
-            status = check_visit_signatures(job, machine, visit, trusted_list)
+            status = check_visit_signatures(job, machine, visit, trusted_list,
+                                            computed.get(f"{machine.id}/{visit.id}"))
             if status.state == "unsigned":
                 report.notes.append(f"{machine.id}/{visit.id}: not signed")
                 continue
@@ -619,6 +722,7 @@ def verify_job(root: Path, trusted: Iterable[bytes] | None = None) -> SiteReport
                     report.notes.append(f"{who}: " + ("unchanged since sign-off" if
                                         check.state == "valid" else "superseded by a later "
                                         "signature over the current inputs") + key)
+                    report.notes.extend(f"{who}: {note}" for note in check.recomputed)
                     continue
                 for problem in check.problems:
                     report.problems.append(f"{who}: {problem}")

@@ -40,6 +40,9 @@ class SignatureEntry(_Strict):
     inputs: dict[str, str]
     key: SignatureKey | None = None
     signature: str | None = Field(None, description="Ed25519 over the statement, base64")
+    # What the tool computed when the visit was signed: the visit's state ("visit") and each
+    # item's verdict ("<checklist>.<item>"). Records written before it was kept have none.
+    verdicts: dict[str, str] | None = None
 
 
 class SignatureFile(_Strict):

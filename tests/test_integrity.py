@@ -344,20 +344,22 @@ def test_the_demo_shows_a_signed_record(tmp_path):
     assert "Signed records" in page and status.checks[-1].fingerprint in page
 
 
-def test_an_unchanged_site_built_with_a_key_gets_its_manifest_signed(built_site, site_copy,
-                                                                     tmp_path):
-    # build --key promises a signed manifest even when nothing else needs writing; with the
-    # same key again nothing is written (Ed25519 signatures are deterministic, RFC 8032).
+def test_build_with_a_key_signs_only_a_manifest_it_wrote_or_verified(built_site, site_copy,
+                                                                    tmp_path):
+    # build --key promises a signed manifest. A manifest signed by that very key, over a site
+    # that still matches it, is signed as it is and nothing is written (Ed25519 signatures
+    # are deterministic, RFC 8032 [S]); one the build cannot vouch for (signature removed,
+    # made with another key) is written again from the job before it is signed.
     _, root, public = built_site
     site, _ = site_copy
     signature = site / "MANIFEST.sha256.sig"
-    signature.unlink()
-    assert build_site(root, site, key=public.with_name("site.key")).unchanged
-    assert verify_site(site, [load_public_key(public)]).ok
     written = signature.stat().st_ino, signature.stat().st_mtime_ns
     assert build_site(root, site, key=public.with_name("site.key")).unchanged
     assert (signature.stat().st_ino, signature.stat().st_mtime_ns) == written
+    signature.unlink()
+    assert not build_site(root, site, key=public.with_name("site.key")).unchanged
+    assert verify_site(site, [load_public_key(public)]).ok
     other = generate_key(tmp_path / "other.key")
-    assert build_site(root, site, key=tmp_path / "other.key").unchanged
+    assert not build_site(root, site, key=tmp_path / "other.key").unchanged
     assert verify_site(site, [other.public_raw]).ok
     assert not verify_site(site, [load_public_key(public)]).ok

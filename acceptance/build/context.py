@@ -18,6 +18,7 @@ from .. import __version__
 from ..integrity import SignatureStatus
 from ..loading import Job
 from ..results import JobResult
+from ..sitefiles import BUILD_STATE_NAME, MANIFEST_NAME, MARKER_NAME
 
 if TYPE_CHECKING:  # the PDF stack loads only when a build renders PDFs
     from ..rendering.package import KeptPart
@@ -25,12 +26,6 @@ if TYPE_CHECKING:  # the PDF stack loads only when a build renders PDFs
 
 __all__ = ["MANIFEST_NAME", "MARKER_NAME", "BUILD_STATE_NAME", "Progress", "SitePage",
            "PdfTask", "BuildState", "BuildReport", "BuildContext"]
-
-MANIFEST_NAME = "MANIFEST.sha256"
-#: Says that a folder was written by this tool, so a later build may replace it.
-MARKER_NAME = ".acceptance-site"
-#: What a build records about its site for the next one (:class:`BuildState`).
-BUILD_STATE_NAME = ".acceptance-build.json"
 
 #: Called with a short line on each PDF as it is rendered.
 Progress = Callable[[str], None]
@@ -71,13 +66,17 @@ class BuildState:
     keys: dict[str, str] = field(default_factory=dict)  # pdf → key of what it was made from
     pages: dict[str, int] = field(default_factory=dict)  # pdf → page count
     kept: dict[str, str] = field(default_factory=dict)  # kept part → sha256 (not listed)
+    # file → [size, mtime in ns, sha256] as written: a file whose size and mtime are
+    # unchanged is taken to be unchanged; any other is digested and compared
+    stats: dict[str, list[int | str]] = field(default_factory=dict)
 
     def digest(self, name: str) -> str | None:
         return self.digests.get(name) or self.kept.get(name)
 
     def to_json(self) -> str:
         return json.dumps({"tool_version": __version__, "pdfs": self.keys, "pages": self.pages,
-                           "kept": self.kept}, indent=1, sort_keys=True) + "\n"
+                           "kept": self.kept, "files": self.stats}, indent=1,
+                          sort_keys=True) + "\n"
 
 
 @dataclass
@@ -90,6 +89,9 @@ class BuildReport:
     unchanged: bool = False  # nothing changed: nothing was written
     files: list[str] = field(default_factory=list)
     result: JobResult | None = None
+    # signed visits whose inputs changed since sign-off (or whose record does not hold):
+    # "machine/visit: state: reasons"
+    altered: list[str] = field(default_factory=list)
 
 
 @dataclass
@@ -103,6 +105,7 @@ class BuildContext:
     with_pdf: bool = True
     jobs: int = 1  # PDF worker processes
     key: Path | None = None  # Ed25519 private key that signs the manifest
+    strict: bool = False  # refuse to write a site showing a visit altered after sign-off
     progress: Progress | None = None
     report: BuildReport = field(init=False)
     # plan

@@ -21,7 +21,12 @@ __all__ = ["check_output", "build_lock", "clear_leftovers", "exchange"]
 
 
 def check_output(output: Path, job_root: Path) -> None:
-    """Refuse an output that would replace the job or a folder this tool did not write."""
+    """Refuse an output that would replace the job or a folder this tool did not write, and
+    an output that is a symbolic link (the build would replace the link, not write where it
+    points, and a link could point anywhere)."""
+    if output.is_symlink():
+        raise BuildError(f"{output} is a symbolic link; a site is written to a real folder. "
+                         f"Give the folder it points to ({output.resolve()}) or another path")
     if output.resolve() == job_root.resolve() or job_root.resolve().is_relative_to(
             output.resolve()):
         raise BuildError(f"the output folder {output} would replace the job folder; "

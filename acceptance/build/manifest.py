@@ -3,7 +3,6 @@ key, its signature."""
 
 from __future__ import annotations
 
-import hashlib
 import os
 from pathlib import Path
 
@@ -13,23 +12,21 @@ from ..integrity import (
     manifest_signature,
     sign_manifest,
 )
+from ..sitefiles import file_sha256, site_files
 from .context import MANIFEST_NAME, BuildContext
 
 __all__ = ["MANIFEST_NAME", "write_manifest", "sign_unchanged_manifest"]
 
 
 def write_manifest(ctx: BuildContext) -> None:
-    """List every file of the staged site with its SHA-256, but the build's own bookkeeping:
-    the marker, the build state and the package's kept parts (all named ``.acceptance-*``);
-    sign the list with ``ctx.key`` when given."""
+    """List every file of the staged site with its SHA-256, but the build's own bookkeeping
+    (:data:`~acceptance.sitefiles.BOOKKEEPING_NAMES`); sign the list with ``ctx.key`` when
+    given. The manifest is written by the build itself here, so it may be signed."""
     staging = ctx.staging
-    files = sorted(p.relative_to(staging).as_posix() for p in staging.rglob("*")
-                   if p.is_file() and p.name != MANIFEST_NAME
-                   and not p.relative_to(staging).parts[0].startswith(".acceptance-"))
+    files = site_files(staging)
     lines = []
     for name in files:
-        digest = hashlib.sha256((staging / name).read_bytes()).hexdigest()
-        lines.append(f"{digest}  {name}")
+        lines.append(f"{file_sha256(staging / name)}  {name}")
     (staging / MANIFEST_NAME).write_text("\n".join(lines) + "\n", encoding="utf-8")
     ctx.report.files = files
     if ctx.key is not None:

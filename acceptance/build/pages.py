@@ -31,7 +31,7 @@ __all__ = ["render_pages", "review_environment"]
 def render_pages(ctx: BuildContext) -> None:
     """Fill ``ctx.files`` with every output file but the PDFs, and ``ctx.signatures`` with
     each visit's sign-off state (the pages show it)."""
-    ctx.signatures = _signature_states(ctx.job)
+    ctx.signatures = _signature_states(ctx.job, ctx.result)
     files: dict[str, bytes] = {}
     env = review_environment(ctx.result, ctx.signatures)
     for page in ctx.pages:
@@ -107,8 +107,8 @@ def _results_json(result: JobResult) -> bytes:
         return buffer.getvalue()
 
 
-def _signature_states(job: Job) -> dict[str, SignatureStatus]:
-    return dict(signature_statuses(job))
+def _signature_states(job: Job, result: JobResult) -> dict[str, SignatureStatus]:
+    return dict(signature_statuses(job, result))
 
 
 def _review_files(result: JobResult, signatures: dict[str, SignatureStatus]

@@ -19,6 +19,7 @@ from typing import TYPE_CHECKING
 from .. import __version__
 from ..loading import Job
 from ..results import JobResult
+from ..sitefiles import file_sha256, read_manifest, read_text_file, site_files
 from .context import (
     BUILD_STATE_NAME,
     MANIFEST_NAME,
@@ -42,7 +43,17 @@ def decide_stale(ctx: BuildContext) -> bool:
         ctx.shared, ctx.package_info = _shared_key(ctx.files), _package_info(ctx.job,
                                                                               ctx.result)
         ctx.tasks = _archival_tasks(ctx, ctx.package_info)
-    ctx.previous = previous = _previous_state(ctx.output)
+    previous = _previous_state(ctx.output)
+    intact = _site_intact(ctx.output, previous, full=ctx.key is not None)
+    if ctx.key is not None and not (intact and _signed_by_key(ctx)):
+        # A manifest this build neither wrote nor can vouch for is not signed: whatever it
+        # lists (a PDF and its line both rewritten) is rendered again, not carried forward.
+        previous = BuildState()
+    elif ctx.key is not None:
+        # The package's kept parts are bookkeeping, outside the signed manifest: a build
+        # that signs lays them out again rather than join parts it cannot vouch for.
+        previous.kept = {}
+    ctx.previous = previous
     digests = {name: hashlib.sha256(data).hexdigest() for name, data in ctx.files.items()}
     # A previous PDF is reused only if it is still the file the previous build recorded:
     # one replaced in the output folder is rendered again, never carried forward.
@@ -52,7 +63,7 @@ def decide_stale(ctx: BuildContext) -> bool:
     records = [t for t in ctx.tasks if not t.part]  # the back parts are kept, not listed
     listed = set(digests) | {t.pdf for t in records}
     ctx.report.pdfs = len(records)
-    if (all(t in ctx.reusable for t in records) and set(previous.digests) == listed
+    if (intact and all(t in ctx.reusable for t in records) and set(previous.digests) == listed
             and all(previous.digests.get(n) == d for n, d in digests.items())):
         ctx.report.unchanged = True
         ctx.report.files = sorted(listed)
@@ -68,7 +79,12 @@ def decide_stale(ctx: BuildContext) -> bool:
 
 
 def write_build_state(ctx: BuildContext) -> None:
-    """Record the build state and the marker that says the site is ours, in staging."""
+    """Record the build state and the marker that says the site is ours, in staging, with
+    the size, mtime and digest of every file of the staged site."""
+    for name in site_files(ctx.staging):
+        status = (ctx.staging / name).lstat()
+        ctx.state.stats[name] = [status.st_size, status.st_mtime_ns,
+                                 file_sha256(ctx.staging / name) or ""]
     (ctx.staging / BUILD_STATE_NAME).write_text(ctx.state.to_json(), encoding="utf-8")
     (ctx.staging / MARKER_NAME).write_text(f"acceptance {__version__}\n", encoding="utf-8")
 
@@ -84,11 +100,50 @@ def documents(tasks: list[PdfTask], package: bool) -> list[PdfTask]:
 
 
 def file_digest(path: Path) -> str | None:
+    return file_sha256(path)
+
+
+def _site_intact(output: Path, previous: BuildState, full: bool) -> bool:
+    """Whether the site at ``output`` is still the one its manifest and the build state
+    describe: the same files, none missing, none added, each with its recorded content.
+
+    Size and mtime are compared first; a file whose either differs (or every file, when
+    ``full``) is digested. A manifest that disagrees with the build state is not trusted.
+    """
+    if not previous.digests or not previous.stats:
+        return False
+    if set(previous.digests) != set(previous.stats):
+        return False
     try:
-        with open(path, "rb") as handle:
-            return hashlib.file_digest(handle, "sha256").hexdigest()
+        present = site_files(output)
     except OSError:
-        return None
+        return False
+    if set(present) != set(previous.digests):
+        return False
+    for name, digest in previous.digests.items():
+        recorded = previous.stats[name]
+        if len(recorded) != 3 or recorded[2] != digest:
+            return False
+        path = output / name
+        try:
+            status = path.lstat()
+        except OSError:
+            return False
+        if (not full and not path.is_symlink()
+                and [status.st_size, status.st_mtime_ns] == recorded[:2]):
+            continue
+        if file_sha256(path) != digest:
+            return False
+    return True
+
+
+def _signed_by_key(ctx: BuildContext) -> bool:
+    """Whether the site's manifest carries a signature by ``ctx.key`` that verifies."""
+    # Imported here: integrity loads the key module only when a key is used.
+    from ..integrity import load_private_key, manifest_signed_by
+
+    assert ctx.key is not None
+    return manifest_signed_by(ctx.output, load_private_key(ctx.key).public_raw)
 
 
 def _shared_key(files: dict[str, bytes]) -> bytes:
@@ -178,15 +233,20 @@ def _previous_state(output: Path) -> BuildState:
     if not (output / MARKER_NAME).is_file() or not manifest.is_file() or not path.is_file():
         return BuildState()
     state = BuildState()
-    for line in manifest.read_text(encoding="utf-8").splitlines():
-        digest, _, name = line.partition("  ")
-        if name:
-            state.digests[name] = digest
     try:
-        recorded = json.loads(path.read_text(encoding="utf-8"))
+        listed = read_manifest(manifest)
+    except (ValueError, OSError):  # damaged: the whole site is written again
+        return BuildState()
+    if listed.bad_lines:
+        return BuildState()
+    state.digests = listed.digests
+    try:
+        recorded = json.loads(read_text_file(path, "build state"))
         state.keys = dict(recorded.get("pdfs", {}))
         state.pages = {name: int(count) for name, count in recorded.get("pages", {}).items()}
         state.kept = dict(recorded.get("kept", {}))
-    except (ValueError, TypeError, AttributeError):
+        state.stats = {str(name): [int(size), int(mtime), str(digest)]
+                       for name, (size, mtime, digest) in recorded.get("files", {}).items()}
+    except (ValueError, TypeError, AttributeError, OSError):
         return BuildState(digests=state.digests)
     return state

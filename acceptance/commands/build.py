@@ -23,6 +23,9 @@ def register(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("--key", type=Path, metavar="KEYFILE",
                         help="Ed25519 private key (from `acceptance keygen`) to sign the "
                              "manifest with, written as MANIFEST.sha256.sig")
+    parser.add_argument("--strict", action="store_true",
+                        help="fail, writing nothing, when a signed visit was altered after "
+                             "sign-off (without it, the build warns and marks the visit)")
 
 
 def run(args: argparse.Namespace) -> int:
@@ -37,9 +40,12 @@ def run(args: argparse.Namespace) -> int:
     if args.key is not None:
         load_private_key(args.key)  # a bad key stops the build before anything is rendered
     report = build_site(args.job, args.output, with_pdf=not args.no_pdf,
-                        progress=progress if interactive else None, jobs=jobs, key=args.key)
+                        progress=progress if interactive else None, jobs=jobs, key=args.key,
+                        strict=args.strict)
     if interactive and report.rendered:
         print(file=sys.stderr)
+    for line in report.altered:
+        print(f"warning: {line}", file=sys.stderr)
     if not args.quiet:
         index = (report.output / "index.html").resolve()
         if report.unchanged:

@@ -20,6 +20,7 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 from .. import check_cache
+from ..text import terminal_text
 from ..verdicts import VisitState, count_states
 from ..wording import counted
 
@@ -145,7 +146,8 @@ def _evaluate(root: Path, variant: str, machines: list[str] | None
     sections = {}
     for machine in result.machines:
         signatures = io.StringIO()
-        altered = _report_signatures(job, loaded[machine.id], signatures)
+        altered = _report_signatures(job, loaded[machine.id], signatures,
+                                     {v.id: v for v in machine.visits})
         section: dict[str, Any] = {
             "states": [visit.state.value for visit in machine.visits],
             "open_deficiencies": sum(1 for item in machine.punch_list if item.blocking),
@@ -172,12 +174,12 @@ def _print(variant: str, head: Any, sections: list[dict[str, Any]]) -> int:
         machines = f"[\n{items}\n{_JSON_KEY_INDENT}]" if sections else "[]"
         document = json.dumps(head, ensure_ascii=False, indent=2).replace(
             f'\n{_JSON_KEY_INDENT}"machines": []', f'\n{_JSON_KEY_INDENT}"machines": {machines}', 1)
-        sys.stdout.write(document + "\n")
-        sys.stderr.write(signatures)
+        sys.stdout.write(terminal_text(document) + "\n")
+        sys.stderr.write(terminal_text(signatures))
     else:
         body = "\n".join([head, *(section["text"] for section in sections), ""])
         # The sign-off states come after every machine, and the totals stay the last line.
-        sys.stdout.write(f"{body}\n{signatures}{totals_line(states)}\n")
+        sys.stdout.write(terminal_text(f"{body}\n{signatures}{totals_line(states)}\n"))
     # The punch list decides: every fail, undetermined point and required point not tested
     # raises a deficiency, so the job is done when each is closed by a later pass or accepted
     # as an exception, whatever the state of the visit that first found it.
@@ -186,13 +188,16 @@ def _print(variant: str, head: Any, sections: list[dict[str, Any]]) -> int:
         section["altered"] for section in sections) else 1
 
 
-def _report_signatures(job: Job, machine: LoadedMachine, stream: io.StringIO) -> int:
+def _report_signatures(job: Job, machine: LoadedMachine, stream: io.StringIO,
+                       results: dict[str, Any]) -> int:
     """Print each signed visit's sign-off state; return how many were altered after it."""
-    from ..integrity import check_visit_signatures
+    from ..integrity import check_visit_signatures, visit_verdicts
 
     altered = 0
     for visit in machine.visits:
-        status = check_visit_signatures(job, machine, visit)
+        result = results.get(visit.id)
+        status = check_visit_signatures(job, machine, visit, verdicts=(
+            visit_verdicts(result) if result is not None else None))
         if status.state == "unsigned":
             continue
         who = ", ".join(f"{c.name} ({c.role})" for c in status.checks)
@@ -201,5 +206,7 @@ def _report_signatures(job: Job, machine: LoadedMachine, stream: io.StringIO) ->
               f" — {who}", file=stream)
         for reason in status.reasons:
             print(f"    {reason}", file=stream)
+        for note in status.upgrade_notes:
+            print(f"    {note}", file=stream)
         altered += status.state != "signed"
     return altered

@@ -21,6 +21,7 @@ from ..evaluation import (
 )
 from ..loading import load_job
 from ..results import ChangeClass, JobResult, MachineResult
+from ..text import terminal_text
 from ..wording import counted
 
 
@@ -118,10 +119,10 @@ def run(args: argparse.Namespace) -> int:
     if args.json:
         document = {"schema": COMPARISON_SCHEMA, "title": result.title, "site": result.site,
                     "comparisons": [comparison_to_json(c) for c in found]}
-        json.dump(document, sys.stdout, ensure_ascii=False, indent=2)
+        sys.stdout.write(terminal_text(json.dumps(document, ensure_ascii=False, indent=2)))
         sys.stdout.write("\n")
     else:
         empty = nothing_to_compare(result, args.machine, args.baseline)
-        print("\n".join(lines(found, empty)).rstrip("\n"))
+        print(terminal_text("\n".join(lines(found, empty)).rstrip("\n")))
     acted = any(c.classification is ChangeClass.ACT for f in found for c in f.changes)
     return 1 if acted else 0

@@ -9,7 +9,8 @@ from __future__ import annotations
 import argparse
 from pathlib import Path
 
-from ..integrity import IntegrityError, load_private_key, sign_visit
+from ..evaluation import evaluate_job
+from ..integrity import IntegrityError, load_private_key, sign_visit, visit_verdicts
 from ..loading import load_job
 from ..wording import counted
 
@@ -34,8 +35,13 @@ def run(args: argparse.Namespace) -> int:
                              "press-brake-1/2026-03-10-commissioning")
     key = load_private_key(args.key) if args.key else None
     job = load_job(args.job)
-    outcome = sign_visit(job, machine_id, visit_id.removesuffix(".yaml"), args.by, args.role,
-                         key)
+    visit_id = visit_id.removesuffix(".yaml")
+    # The verdicts computed now are kept, so a later tool version can say which it computes
+    # otherwise from the same inputs (an upgrade), apart from inputs changed (an alteration).
+    computed = next((visit_verdicts(v) for v in evaluate_job(job).visits
+                     if (v.machine, v.id) == (machine_id, visit_id)), None)
+    outcome = sign_visit(job, machine_id, visit_id, args.by, args.role, key,
+                         verdicts=computed)
     entry = outcome.entry
     if outcome.previous:
         which = _ORDINAL.get(outcome.previous, f"number {outcome.previous + 1}")

@@ -10,6 +10,7 @@ import sys
 from pathlib import Path
 
 from ..integrity import IntegrityError, load_public_key, verify_job, verify_site
+from ..text import terminal_text
 from ..wording import counted
 
 
@@ -36,12 +37,12 @@ def run(args: argparse.Namespace) -> int:
         raise IntegrityError(f"{folder} holds neither MANIFEST.sha256 (a built site) nor "
                              "job.yaml (a job folder)")
     for note in report.notes:
-        print(f"  {note}")
+        print(terminal_text(f"  {note}"))
     for problem in report.problems:
-        print(f"MISMATCH {problem}", file=sys.stderr)
+        print(terminal_text(f"MISMATCH {problem}"), file=sys.stderr)
     if report.ok:
-        print(f"OK: {what} checked in {folder}, no mismatch")
+        print(terminal_text(f"OK: {what} checked in {folder}, no mismatch"))
         return 0
-    print(f"{counted(len(report.problems), 'mismatch', 'mismatches')} in {folder} "
-          f"({what} checked)", file=sys.stderr)
+    print(terminal_text(f"{counted(len(report.problems), 'mismatch', 'mismatches')} in "
+                        f"{folder} ({what} checked)"), file=sys.stderr)
     return 1

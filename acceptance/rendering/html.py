@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from pathlib import Path
 from typing import Any
+from urllib.parse import unquote
 
 import jinja2
 from markdown_it import MarkdownIt
@@ -17,7 +18,7 @@ from markupsafe import Markup
 from ..integrity import SignatureStatus
 from ..resources import templates_dir
 from ..results import Verdict, VisitState
-from ..text import visible
+from ..text import url_path, url_segment, visible
 
 __all__ = ["make_environment", "render_markdown", "SIGNATURE_SHAPES"]
 
@@ -33,12 +34,24 @@ SIGNATURE_SHAPES: dict[str, str] = {
 _SAFE_SCHEMES = ("http:", "https:", "mailto:")
 
 
+def _normalised_link(url: str) -> str:
+    """A link target as a browser would follow it, for the filter to judge: percent-decoded
+    until it no longer changes (``%252e`` is ``%2e`` is ``.``), without control and white-space
+    characters (a browser drops them inside a scheme), lower case."""
+    for _ in range(8):
+        decoded = unquote(url)
+        if decoded == url:
+            break
+        url = decoded
+    return "".join(c for c in url if c.isprintable() and not c.isspace()).lower()
+
+
 def _markdown() -> MarkdownIt:
     md = MarkdownIt("commonmark", {"html": False, "linkify": False, "typographer": False})
     md.disable("image")  # notes never pull files into the record; attachments are listed
 
     def validate_link(url: str) -> bool:
-        lowered = url.strip().lower()
+        lowered = _normalised_link(url)
         if ":" not in lowered.split("/")[0]:
             # Relative links stay inside the site: from a folder opened with file:// a
             # link from the root ('/etc/passwd') or one climbing out ('../..') would open
@@ -103,6 +116,10 @@ def make_environment(extra_globals: dict[str, Any] | None = None,
     env.filters["markdown"] = render_markdown
     env.filters["badge"] = _verdict_badge
     env.filters["signature_badge"] = _signature_badge
+    # Every machine, visit and attachment name in a link is percent-encoded (RFC 3986 §2.1):
+    # a space, '#', '?' or '%' in a folder or file name must still link to its file.
+    env.filters["urlpart"] = url_segment
+    env.filters["urlpath"] = url_path
     # Pages show a visit's sign-off through signature_of(visit); the build replaces this
     # default with the states it checked (acceptance.integrity).
     env.globals["signature_of"] = _unsigned

@@ -27,6 +27,7 @@ from pypdf import PdfReader
 
 from ..clock import source_date_epoch
 from ..integrity import signature_path, visit_inputs
+from ..sitefiles import PARTS_FOLDER as _PARTS_FOLDER
 from .pdf import PdfInfo, PdfSource, render_document, write_archival
 from .pdfjoin import join_pdfs
 
@@ -41,7 +42,7 @@ __all__ = ["PACKAGE_NAME", "PARTS_FOLDER", "BACK_PARTS", "PackagePart", "KeptPar
 PACKAGE_NAME = "package.pdf"
 #: The package's own parts, kept in the site between builds but outside its manifest, so
 #: that a part whose page has not changed is not laid out again.
-PARTS_FOLDER = ".acceptance-package"
+PARTS_FOLDER = _PARTS_FOLDER
 FRONT_NAME = "front.pdf"
 #: The parts after the records: (title, page of the site they are laid out from).
 BACK_PARTS = (("Deficiencies", "deficiencies.html"), ("Instruments", "instruments.html"))

@@ -30,6 +30,8 @@ import pydyf
 from weasyprint import HTML, Attachment
 from weasyprint.urls import URLFetcher, URLFetcherResponse
 
+from ..text import url_path, xml_text
+
 __all__ = ["ConfinedFetcher", "RefusedFetch", "render_pdf", "render_document", "MAX_FETCH_BYTES",
            "PDF_VARIANT", "PdfSource", "PdfInfo", "write_archival"]
 
@@ -57,6 +59,20 @@ class PdfInfo:
     title: str | None = None
     subject: str | None = None
     authors: Sequence[str] = field(default_factory=tuple)
+
+
+def _metadata_as_xml_text(metadata: Any) -> None:
+    """Remove from the document's metadata (written as XMP, which is XML) every character
+    XML 1.0 does not allow: a control character in a title or a name would make it ill-formed."""
+    for name in ("title", "description", "generator", "lang"):
+        value = getattr(metadata, name, None)
+        if isinstance(value, str):
+            setattr(metadata, name, xml_text(value))
+    for name in ("authors", "keywords"):
+        values = getattr(metadata, name, None)
+        if isinstance(values, list):
+            setattr(metadata, name, [xml_text(v) if isinstance(v, str) else v
+                                     for v in values])
 
 
 def _w3c(moment: _dt.datetime) -> str:
@@ -142,6 +158,7 @@ def write_archival(document: Any, pdf_path: Path, attachments: Sequence[PdfSourc
             embedded.append(Attachment(file_obj=io.BytesIO(source.data), name=source.name,
                                        description=source.description, created=moment,
                                        modified=moment, relationship="Source"))
+    _metadata_as_xml_text(document.metadata)
     document.write_pdf(str(pdf_path), uncompressed_pdf=False, pdf_variant=PDF_VARIANT,
                        pdf_identifier=identifier, attachments=embedded or None,
                        finisher=partial(_finish, site_root=site_root,
@@ -169,7 +186,9 @@ def _relative_links(pdf: Any, site_root: Path, base: Path) -> None:  # a pydyf P
         if isinstance(action, dict) and isinstance(text, str) and text.startswith(prefix):
             path, _, fragment = text[len(prefix):].partition("#")
             relative = os.path.relpath(site_root.resolve() / unquote(path), base)
-            action["URI"] = pydyf.String(Path(relative).as_posix()
+            # Percent-encoded again (RFC 3986 §2.1): a name with a space, '#', '?' or '%'
+            # still links to its file.
+            action["URI"] = pydyf.String(url_path(Path(relative).as_posix())
                                          + (f"#{fragment}" if fragment else ""))
 
 

@@ -16,6 +16,7 @@ from typing import Any
 
 from ..integrity import SignatureStatus
 from ..results import JobResult, PunchItem, VisitResult
+from ..text import csv_cell, url_segment
 
 __all__ = ["INDEX_DATA_NAME", "DEFICIENCIES_CSV_NAME", "index_options", "index_data_script",
            "deficiencies_csv", "review_globals", "verdict_counts"]
@@ -68,7 +69,10 @@ def deficiencies_csv(rows: Iterable[PunchItem], result: JobResult,
                      signatures: Mapping[str, Any] | None = None) -> str:
     """The punch list as CSV with a header row (RFC 4180), one line per deficiency in the
     punch list's order (open, accepted, closed); visit, date, reading and verdict are those
-    of the finding that raised it."""
+    of the finding that raised it.
+
+    Every cell is text: one a spreadsheet would run as a formula gets a leading apostrophe
+    (:func:`acceptance.text.csv_cell`)."""
     machines = {m.id: m for m in result.machines}
     dates = {(v.machine, v.id): v.date.isoformat() for v in result.visits}
     buffer = io.StringIO()
@@ -79,7 +83,7 @@ def deficiencies_csv(rows: Iterable[PunchItem], result: JobResult,
         machine = machines[row.machine]
         status = (signatures or {}).get(f"{row.machine}/{row.visit}")
         accepted = item.acceptance
-        writer.writerow([
+        writer.writerow([csv_cell(cell) for cell in (
             item.state.value, row.machine, machine.name, machine.area or "", row.visit,
             dates[(row.machine, row.visit)], row.item, row.title, row.element or "",
             row.reading or "", row.verdict.word, row.severity.value,
@@ -89,7 +93,8 @@ def deficiencies_csv(rows: Iterable[PunchItem], result: JobResult,
             accepted.by if accepted else "", accepted.date.isoformat() if accepted else "",
             accepted.until.isoformat() if accepted and accepted.until else "",
             accepted.reason if accepted else "", item.note or "",
-            f"machines/{row.machine}/{row.visit}.html#{row.anchor}"])
+            f"machines/{url_segment(row.machine)}/{url_segment(row.visit)}.html"
+            f"#{row.anchor}")])
     return buffer.getvalue()
 
 
