@@ -43,6 +43,7 @@ from pydantic import ValidationError
 
 from . import __version__
 from .errors import AcceptanceError, InputError
+from .evaluation import evaluate_job
 from .loading import Job, LoadedMachine, LoadedVisit, load_job
 from .signature_records import (
     SIGNATURE_SCHEMA,
@@ -695,8 +696,6 @@ def verify_site(site: Path, trusted: Iterable[bytes] | None = None,
 
 def verify_job(root: Path, trusted: Iterable[bytes] | None = None) -> SiteReport:
     """Check every signed visit of the job at ``root``: digest and signature."""
-    from .evaluation import evaluate_job  # the verdicts this version computes
-
     job = load_job(root)
     computed = {f"{v.machine}/{v.id}": visit_verdicts(v) for v in evaluate_job(job).visits}
     report = SiteReport("job")

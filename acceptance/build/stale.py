@@ -17,6 +17,7 @@ from pathlib import Path
 from typing import TYPE_CHECKING
 
 from .. import __version__
+from ..integrity import load_private_key, manifest_signed_by
 from ..loading import Job
 from ..results import JobResult
 from ..sitefiles import file_sha256, read_manifest, read_text_file, site_files
@@ -139,9 +140,6 @@ def _site_intact(output: Path, previous: BuildState, full: bool) -> bool:
 
 def _signed_by_key(ctx: BuildContext) -> bool:
     """Whether the site's manifest carries a signature by ``ctx.key`` that verifies."""
-    # Imported here: integrity loads the key module only when a key is used.
-    from ..integrity import load_private_key, manifest_signed_by
-
     assert ctx.key is not None
     return manifest_signed_by(ctx.output, load_private_key(ctx.key).public_raw)
 
