@@ -132,6 +132,8 @@ def _placed(start: int, heading: str, text: str, blocks: list[tuple[int, str, st
     machine = "machines/mag-table-1"
     if heading == "`job.yaml`":
         return "job.yaml", text
+    if heading == "The punch list":
+        return "punch_list.yaml", text
     if heading == "`instruments.yaml`":
         return "instruments.yaml", text
     if heading == "`machines/<id>/machine.yaml`":
