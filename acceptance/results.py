@@ -12,10 +12,17 @@ from __future__ import annotations
 
 import datetime as _dt
 from dataclasses import dataclass, field
-from enum import Enum
 from typing import TYPE_CHECKING, Any
 
-from .verdicts import ChangeClass, Severity, Verdict, VisitState, count_states, worst
+from .verdicts import (
+    ChangeClass,
+    DeficiencyState,
+    Severity,
+    Verdict,
+    VisitState,
+    count_states,
+    worst,
+)
 
 if TYPE_CHECKING:  # numpy stays out of check's start-up unless a capture is attached
     from .captures import CaptureAnalysis
@@ -215,34 +222,6 @@ class Deficiency:
     verdict: Verdict
     severity: Severity
     anchor: str  # the item's anchor on the visit's page
-
-
-class DeficiencyState(str, Enum):
-    """Where a deficiency stands on the punch list, followed over the machine's visits."""
-
-    OPEN = "open"  # raised and neither re-tested as a pass nor accepted
-    ACCEPTED = "accepted"  # open, but accepted by the client as an exception (a concession)
-    CLOSED = "closed"  # a later pass of the same item and point, as found or as left
-
-    @property
-    def slug(self) -> str:
-        return self.value
-
-    @property
-    def word(self) -> str:
-        return {"accepted": "accepted exception"}.get(self.value, self.value)
-
-    @property
-    def mark(self) -> str:
-        return _DEFICIENCY_MARKS[self]
-
-
-# Open first, then accepted, then closed: the order of the punch list.
-_DEFICIENCY_MARKS: dict[DeficiencyState, str] = {
-    DeficiencyState.OPEN: "☐",
-    DeficiencyState.ACCEPTED: "◩",
-    DeficiencyState.CLOSED: "☑",
-}
 
 
 @dataclass(frozen=True)

@@ -7,13 +7,33 @@ cached sections, loads only this.
 
 from __future__ import annotations
 
-from collections.abc import Iterable
+from collections.abc import Iterable, Mapping
 from enum import Enum
+from typing import Any
 
-__all__ = ["ChangeClass", "Severity", "Verdict", "VisitState", "count_states", "worst"]
+__all__ = ["ChangeClass", "DeficiencyState", "Severity", "Verdict", "VisitState",
+           "count_states", "worst"]
 
 
-class Verdict(str, Enum):
+class _Shown(str, Enum):
+    """A value shown as a word and a mark (the shape before the word), so a record reads in
+    grey-scale print and for readers who do not tell colours apart (never colour alone)."""
+
+    @property
+    def slug(self) -> str:
+        return self.value.replace(" ", "-")
+
+    @property
+    def word(self) -> str:
+        return self.value
+
+    @property
+    def mark(self) -> str:
+        # One table per kind: str-valued members of two kinds compare equal ('pass').
+        return _MARKS[type(self)][self]
+
+
+class Verdict(_Shown):
     """Outcome of one check or item. Conditional statements follow ILAC-G8:09/2019 cl. 4.2."""
 
     PASS = "pass"
@@ -35,18 +55,6 @@ class Verdict(str, Enum):
         return self in (Verdict.FAIL, Verdict.CONDITIONAL_FAIL, Verdict.UNDETERMINED,
                         Verdict.NOT_TESTED, Verdict.CONDITIONAL_PASS)
 
-    @property
-    def slug(self) -> str:
-        return self.value.replace(" ", "-")
-
-    @property
-    def word(self) -> str:
-        return self.value
-
-    @property
-    def mark(self) -> str:
-        """The shape shown before the word, so a record reads in grey-scale print."""
-        return _VERDICT_MARKS[self]
 
 
 # Each verdict has a word and a shape, so a record reads in grey-scale print and for readers
@@ -74,7 +82,7 @@ def worst(verdicts: list[Verdict], empty: Verdict = Verdict.NOT_APPLICABLE) -> V
     return min(verdicts, key=_ORDER.index)
 
 
-class VisitState(str, Enum):
+class VisitState(_Shown):
     """A visit as a whole."""
 
     PASS = "pass"
@@ -82,17 +90,6 @@ class VisitState(str, Enum):
     INCOMPLETE = "incomplete"
     FAIL = "fail"
 
-    @property
-    def slug(self) -> str:
-        return self.value.replace(" ", "-")
-
-    @property
-    def word(self) -> str:
-        return self.value
-
-    @property
-    def mark(self) -> str:
-        return _STATE_MARKS[self]
 
 
 _STATE_MARKS: dict[VisitState, str] = {
@@ -117,7 +114,7 @@ class Severity(str, Enum):
     ADVISORY = "advisory"  # open, but neither required nor failed
 
 
-class ChangeClass(str, Enum):
+class ChangeClass(_Shown):
     """How far a value has moved from the baseline, against the item's thresholds."""
 
     STEADY = "steady"
@@ -127,17 +124,6 @@ class ChangeClass(str, Enum):
     # Only for a part replaced: the value moved back inside its limit or toward its nominal.
     REPAIRED = "repaired"
 
-    @property
-    def slug(self) -> str:
-        return self.value.replace(" ", "-")
-
-    @property
-    def word(self) -> str:
-        return self.value
-
-    @property
-    def mark(self) -> str:
-        return _CHANGE_MARKS[self]
 
 
 # Hollow, then filled, as a change grows: distinct in grey-scale and beside its word.
@@ -147,4 +133,29 @@ _CHANGE_MARKS: dict[ChangeClass, str] = {
     ChangeClass.ACT: "▲",
     ChangeClass.NOT_COMPARABLE: "?",
     ChangeClass.REPAIRED: "+",
+}
+
+
+class DeficiencyState(_Shown):
+    """Where a deficiency stands on the punch list, followed over the machine's visits."""
+
+    OPEN = "open"  # raised and neither re-tested as a pass nor accepted
+    ACCEPTED = "accepted"  # open, but accepted by the client as an exception (a concession)
+    CLOSED = "closed"  # a later pass of the same item and point, as found or as left
+
+    @property
+    def word(self) -> str:
+        return "accepted exception" if self is DeficiencyState.ACCEPTED else self.value
+
+
+# Open first, then accepted, then closed: the order of the punch list.
+_DEFICIENCY_MARKS: dict[DeficiencyState, str] = {
+    DeficiencyState.OPEN: "☐",
+    DeficiencyState.ACCEPTED: "◩",
+    DeficiencyState.CLOSED: "☑",
+}
+
+_MARKS: dict[type[_Shown], Mapping[Any, str]] = {
+    Verdict: _VERDICT_MARKS, VisitState: _STATE_MARKS, ChangeClass: _CHANGE_MARKS,
+    DeficiencyState: _DEFICIENCY_MARKS,
 }
